@@ -1,0 +1,24 @@
+/* fw-cli-features.c: placeholder until this subcommand group is written. */
+#include "fw-cli.h"
+
+int
+fw_cli_features (int argc, char **argv)
+{
+  fw_cli_error ("'%s' is not available in this build yet", argv[0]);
+  return FW_CLI_EXIT_ERROR;
+}
+
+int
+fw_cli_info (int argc, char **argv)
+{
+  fw_cli_error ("'%s' is not available in this build yet", argv[0]);
+  return FW_CLI_EXIT_ERROR;
+}
+
+int
+fw_cli_params (int argc, char **argv)
+{
+  fw_cli_error ("'%s' is not available in this build yet", argv[0]);
+  return FW_CLI_EXIT_ERROR;
+}
+
