@@ -45,5 +45,9 @@ char *fw_clip_dup_identity (FwClip *self);
  * calls return the same FwAudio while it is alive. Thread-safe; may block while decoding. */
 FwAudio *fw_clip_load_audio (FwClip *self, int channel, int sample_rate,
                              GCancellable *cancellable, GError **error);
+/* Releases decoded audio that nobody but the clip holds any more. Thread-safe. */
+void fw_clip_trim_audio (FwClip *self);
+/* A copy of the path, safe to call from any thread (fw_clip_get_path is main-thread only). */
+char *fw_clip_dup_path (FwClip *self);
 
 G_END_DECLS

@@ -47,4 +47,20 @@ const char *fw_feature_value_unit (FwStage stage, const FwParams *params);
  * any other extension, CSV with a header row. Atomic. */
 gboolean fw_feature_write (const FwMatrix *m, const char *path, GError **error);
 
+/* Added by the model layer: */
+/* "power" or "magnitude" for the spectrum stage (per params' spectrum; params may be NULL),
+ * else the stage's name ("mel-db", ...). Static string. */
+const char *fw_feature_stage_name (FwStage stage, const FwParams *params);
+/* Columns of a stage's matrix: fft_length/2+1 (spectrum, db), mel_bands (mel, mel-db),
+ * cepstral_count (mfcc, delta, delta2), 1 (descriptors). */
+gsize fw_feature_n_bins (FwStage stage, const FwParams *params);
+/* fw_params_check() against this audio (rate and length after loading), errors prefixed with
+ * the file name, plus warnings about resampling (upsampling adds nothing; strong downsampling
+ * removes content). warnings may be NULL. fw_feature_compute() calls this first. */
+gboolean fw_feature_check (FwAudio *audio, const FwParams *params, GPtrArray *warnings,
+                           GError **error);
+/* The NPY 1.0 preamble (magic, version, length, padded dict) for a float32 (frames, bins)
+ * C-order array; its size is a multiple of 64 bytes. */
+GBytes *fw_feature_npy_header (gsize n_frames, gsize n_bins);
+
 G_END_DECLS

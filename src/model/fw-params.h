@@ -47,7 +47,9 @@ GType fw_params_get_type (void) G_GNUC_CONST;
 FwParams *fw_params_new_default (void);
 FwParams *fw_params_new_from_text (const char *text, gssize length, GError **error);
 FwParams *fw_params_new_from_file (const char *path, GError **error);
-/* A copy of base with one key changed. value is the key's text form ("1024", "hann", "max"). */
+/* A copy of base with one key changed. value is the key's text form ("1024", "hann", "max").
+ * Changing window_length also moves fft_length when fft_length was equal to the old
+ * window_length and the same call (or settings list) does not set fft_length itself. */
 FwParams *fw_params_with (const FwParams *base, const char *key, const char *value,
                           GError **error);
 /* Applies "key=value" strings in order (as from --set). */
@@ -95,5 +97,12 @@ gboolean fw_params_check (const FwParams *params, double analysis_rate, gsize n_
 
 /* One or two sentences describing the parameters in words, for a paper's methods section. */
 char *fw_params_describe_methods (const FwParams *params, double analysis_rate);
+
+/* Added by the model layer: */
+/* Canonical number text: the shortest of %.15g/%.16g/%.17g (C locale) that reads back to the
+ * same double; -0 becomes 0. buf must hold G_ASCII_DTOSTR_BUF_SIZE bytes; returns buf. */
+const char *fw_params_format_double (double value, char *buf);
+/* Sorted indices as a compact list, "0-5, 9, 12-13". Caller frees. */
+char *fw_params_format_index_list (const gsize *indices, gsize n);
 
 G_END_DECLS

@@ -81,6 +81,11 @@ void fw_project_set_cache_budget (FwProject *self, guint64 bytes);
 const char *fw_project_get_title (FwProject *self);
 void fw_project_set_title (FwProject *self, const char *title);
 
+/* The project's feature cache, created on first use with "cache-budget" (which it then
+ * follows). Removing a clip or a set drops its entries; editing a set's parameters cancels
+ * only the jobs keyed on the old value (when no other set shares it). Transfer none. */
+FwFeatureCache *fw_project_get_feature_cache (FwProject *self);
+
 /* Project file (text, our own format, see fw-project-file.c). Loading never half-loads:
  * on error NULL and a message that names the line or key. Saving is atomic and keeps the
  * previous file as PATH~ . */
