@@ -154,6 +154,18 @@ fw_application_startup (GApplication *app)
 
   gtk_window_set_default_icon_name (FW_APP_ID);
   follow_system_colour_scheme (FW_APPLICATION (app));
+
+  /* GtkApplication finds icons, menus and the shortcuts window under the resource base
+   * path by itself; the style sheet is ours to load. */
+  if (gdk_display_get_default () != NULL)
+    {
+      g_autoptr (GtkCssProvider) css = gtk_css_provider_new ();
+
+      gtk_css_provider_load_from_resource (css, "/org/framewise/Workbench/style.css");
+      gtk_style_context_add_provider_for_display (gdk_display_get_default (),
+                                                  GTK_STYLE_PROVIDER (css),
+                                                  GTK_STYLE_PROVIDER_PRIORITY_APPLICATION);
+    }
 }
 
 static gboolean

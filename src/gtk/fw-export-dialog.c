@@ -623,7 +623,8 @@ fw_export_dialog_new (GtkWindow *parent, FwFeatureCache *cache, FwViewport *view
   g_return_val_if_fail (FW_IS_CLIP (clip), NULL);
   g_return_val_if_fail (FW_IS_PARAM_SET (set), NULL);
 
-  self = g_object_new (FW_TYPE_EXPORT_DIALOG, "transient-for", parent, NULL);
+  self = g_object_new (FW_TYPE_EXPORT_DIALOG, "transient-for", parent,
+                       "destroy-with-parent", TRUE, NULL);
   self->cache = g_object_ref (cache);
   self->viewport = g_object_ref (viewport);
   self->clip = g_object_ref (clip);

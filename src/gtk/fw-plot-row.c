@@ -136,6 +136,7 @@ struct _FwPlotRow {
 
   GtkWidget *menu_button;
   GtkWidget *popover_box;
+  guint reload_idle;
 };
 
 G_DEFINE_FINAL_TYPE (FwPlotRow, fw_plot_row, GTK_TYPE_WIDGET)
@@ -505,6 +506,25 @@ on_set_params_changed (FwParamSet *set, GParamSpec *pspec, FwPlotRow *self)
   start_load (self);
 }
 
+static gboolean
+reload_idle_cb (gpointer user_data)
+{
+  FwPlotRow *self = user_data;
+
+  self->reload_idle = 0;
+  start_load (self);
+  return G_SOURCE_REMOVE;
+}
+
+/* The clip was relinked or its file appeared or vanished: compute again once the clip has
+ * finished updating itself. */
+static void
+on_clip_file_changed (FwClip *clip, GParamSpec *pspec, FwPlotRow *self)
+{
+  if (self->reload_idle == 0)
+    self->reload_idle = g_idle_add (reload_idle_cb, self);
+}
+
 void
 fw_plot_row_set_source (FwPlotRow *self, FwFeatureCache *cache, FwClip *clip, FwParamSet *set)
 {
@@ -517,6 +537,8 @@ fw_plot_row_set_source (FwPlotRow *self, FwFeatureCache *cache, FwClip *clip, Fw
     return;
   if (self->set != NULL)
     g_signal_handlers_disconnect_by_func (self->set, on_set_params_changed, self);
+  if (self->clip != NULL)
+    g_signal_handlers_disconnect_by_func (self->clip, on_clip_file_changed, self);
   if (clip != self->clip)
     {
       g_clear_pointer (&self->matrix, fw_matrix_unref);
@@ -533,6 +555,11 @@ fw_plot_row_set_source (FwPlotRow *self, FwFeatureCache *cache, FwClip *clip, Fw
   g_set_object (&self->set, set);
   if (set != NULL)
     g_signal_connect (set, "notify::params", G_CALLBACK (on_set_params_changed), self);
+  if (clip != NULL)
+    {
+      g_signal_connect (clip, "notify::path", G_CALLBACK (on_clip_file_changed), self);
+      g_signal_connect (clip, "notify::missing", G_CALLBACK (on_clip_file_changed), self);
+    }
   start_load (self);
 }
 
@@ -541,7 +568,14 @@ FwParamSet *fw_plot_row_get_param_set (FwPlotRow *self) { return self->set; }
 FwParams *fw_plot_row_get_params (FwPlotRow *self) { return self->params; }
 FwMatrix *fw_plot_row_get_matrix (FwPlotRow *self) { return self->matrix; }
 FwAudio *fw_plot_row_get_audio (FwPlotRow *self) { return self->audio; }
-gboolean fw_plot_row_is_busy (FwPlotRow *self) { return self->busy || self->render_running; }
+static gboolean texture_outdated (FwPlotRow *self);
+
+/* Busy: computing, rendering a heatmap, or showing a heatmap made for another view. */
+gboolean
+fw_plot_row_is_busy (FwPlotRow *self)
+{
+  return self->busy || self->render_running || self->reload_idle != 0 || texture_outdated (self);
+}
 const char *fw_plot_row_get_message (FwPlotRow *self) { return self->message; }
 
 double
@@ -965,23 +999,50 @@ on_render_done (GObject *source, GAsyncResult *result, gpointer user_data)
 
 /* The texture to show for the current view, starting its rendering when it is missing;
  * *exact says whether the texture returned is the one for this view. */
+static void
+current_texture_key (FwPlotRow *self, const graphene_rect_t *area, double t0, double t1,
+                     FwHeatmapSpec *spec, TextureKey *key)
+{
+  int scale = gtk_widget_get_scale_factor (GTK_WIDGET (self));
+
+  heatmap_spec (self, spec, t0, t1);
+  memset (key, 0, sizeof *key);
+  key->matrix = self->matrix;
+  key->scale = spec->scale;
+  key->range = spec->range;
+  key->freq_scale = spec->freq_scale;
+  key->t0 = t0;
+  key->t1 = t1;
+  key->width = (int) ceil (area->size.width * scale);
+  key->height = (int) ceil (area->size.height * scale);
+}
+
+/* TRUE when the heatmap on screen is not the one for the current view yet. */
+static gboolean
+texture_outdated (FwPlotRow *self)
+{
+  graphene_rect_t area;
+  FwHeatmapSpec spec;
+  TextureKey key;
+  double t0, t1;
+
+  if (self->matrix == NULL || !fw_plot_kind_is_heatmap (self->kind) ||
+      !gtk_widget_get_mapped (GTK_WIDGET (self)))
+    return FALSE;
+  fw_plot_row_get_data_area (self, &area);
+  fw_viewport_get_visible (self->viewport, &t0, &t1);
+  current_texture_key (self, &area, t0, t1, &spec, &key);
+  return self->texture == NULL || !texture_key_equal (&key, &self->texture_key);
+}
+
 static GdkTexture *
 heatmap_texture (FwPlotRow *self, const graphene_rect_t *area, double t0, double t1,
                  gboolean *exact)
 {
-  int scale = gtk_widget_get_scale_factor (GTK_WIDGET (self));
   FwHeatmapSpec spec;
-  TextureKey key = { 0 };
+  TextureKey key;
 
-  heatmap_spec (self, &spec, t0, t1);
-  key.matrix = self->matrix;
-  key.scale = spec.scale;
-  key.range = spec.range;
-  key.freq_scale = spec.freq_scale;
-  key.t0 = t0;
-  key.t1 = t1;
-  key.width = (int) ceil (area->size.width * scale);
-  key.height = (int) ceil (area->size.height * scale);
+  current_texture_key (self, area, t0, t1, &spec, &key);
   *exact = self->texture != NULL && texture_key_equal (&key, &self->texture_key);
   if (!*exact && !self->render_running)
     {
@@ -1085,9 +1146,10 @@ fw_plot_row_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
       }
     if (fw_viewport_has_cursor (self->viewport))
       {
-        double xc = round (fw_plot_row_time_to_x (self, fw_viewport_get_cursor (self->viewport)));
+        /* a crisp line on the pixel that holds the cursor time */
+        double xc = floor (fw_plot_row_time_to_x (self, fw_viewport_get_cursor (self->viewport)));
         gtk_snapshot_append_color (snapshot, &cursor,
-                                   &GRAPHENE_RECT_INIT (xc - 0.5, area.origin.y, 1.5, area.size.height));
+                                   &GRAPHENE_RECT_INIT (xc, area.origin.y, 1, area.size.height));
       }
     if (self->hovering && self->drag_mode == DRAG_NONE)
       gtk_snapshot_append_color (snapshot, &hover,
@@ -1475,6 +1537,9 @@ fw_plot_row_dispose (GObject *object)
   g_clear_object (&self->cancellable);
   if (self->set != NULL)
     g_signal_handlers_disconnect_by_func (self->set, on_set_params_changed, self);
+  if (self->clip != NULL)
+    g_signal_handlers_disconnect_by_func (self->clip, on_clip_file_changed, self);
+  g_clear_handle_id (&self->reload_idle, g_source_remove);
   if (self->viewport != NULL)
     g_signal_handlers_disconnect_by_func (self->viewport, on_viewport_changed, self);
   g_clear_object (&self->viewport);

@@ -249,8 +249,7 @@ relayout (FwPlotStack *self)
     {
       Column *col = &self->columns[c];
 
-      if (self->n_columns > 1)
-        gtk_grid_attach (self->header_grid, col->header, (int) c, 0, 1, 1);
+      gtk_grid_attach (self->header_grid, col->header, (int) c, 0, 1, 1);
       gtk_grid_attach (self->header_grid, col->ruler, (int) c, 1, 1, 1);
       for (guint i = 0; i < col->rows->len; i++)
         gtk_grid_attach (self->rows_grid, g_ptr_array_index (col->rows, i), (int) c, (int) i, 1, 1);
@@ -559,6 +558,12 @@ fw_plot_stack_init (FwPlotStack *self)
   add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Left, 0, "win.pan-left");
   add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Right, 0, "win.pan-right");
   add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Escape, 0, "win.clear-selection");
+  add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Left, GDK_SHIFT_MASK, "win.cursor-left");
+  add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Right, GDK_SHIFT_MASK, "win.cursor-right");
+  add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Left, GDK_SHIFT_MASK | GDK_CONTROL_MASK,
+                "win.select-left");
+  add_shortcut (GTK_SHORTCUT_CONTROLLER (keys), GDK_KEY_Right, GDK_SHIFT_MASK | GDK_CONTROL_MASK,
+                "win.select-right");
   gtk_widget_add_controller (GTK_WIDGET (self), keys);
 }
 

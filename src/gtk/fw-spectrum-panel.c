@@ -40,6 +40,7 @@ struct _FwSpectrumPanel {
 
   guint values_generation;
   gboolean averaging;
+  guint reload_idle;
 
   gboolean hovering;
   double hover_x, hover_y;
@@ -330,6 +331,26 @@ fw_spectrum_panel_set_context (FwSpectrumPanel *self, FwFeatureCache *cache,
   start_request (self);
 }
 
+static gboolean
+reload_idle_cb (gpointer user_data)
+{
+  FwSpectrumPanel *self = user_data;
+
+  self->reload_idle = 0;
+  g_clear_pointer (&self->matrix, fw_matrix_unref);
+  g_clear_pointer (&self->params, fw_params_unref);
+  start_request (self);
+  return G_SOURCE_REMOVE;
+}
+
+/* Relinked, or the file appeared or vanished: ask again once the clip has updated. */
+static void
+on_clip_file_changed (FwClip *clip, GParamSpec *pspec, FwSpectrumPanel *self)
+{
+  if (self->reload_idle == 0)
+    self->reload_idle = g_idle_add (reload_idle_cb, self);
+}
+
 void
 fw_spectrum_panel_set_source (FwSpectrumPanel *self, FwClip *clip, FwParamSet *set)
 {
@@ -339,6 +360,8 @@ fw_spectrum_panel_set_source (FwSpectrumPanel *self, FwClip *clip, FwParamSet *s
     return;
   if (self->set != NULL)
     g_signal_handlers_disconnect_by_func (self->set, on_set_params_changed, self);
+  if (self->clip != NULL)
+    g_signal_handlers_disconnect_by_func (self->clip, on_clip_file_changed, self);
   if (clip != self->clip)
     {
       g_clear_pointer (&self->matrix, fw_matrix_unref);
@@ -348,6 +371,11 @@ fw_spectrum_panel_set_source (FwSpectrumPanel *self, FwClip *clip, FwParamSet *s
   g_set_object (&self->set, set);
   if (set != NULL)
     g_signal_connect (set, "notify::params", G_CALLBACK (on_set_params_changed), self);
+  if (clip != NULL)
+    {
+      g_signal_connect (clip, "notify::path", G_CALLBACK (on_clip_file_changed), self);
+      g_signal_connect (clip, "notify::missing", G_CALLBACK (on_clip_file_changed), self);
+    }
   start_request (self);
 }
 
@@ -355,7 +383,7 @@ gboolean
 fw_spectrum_panel_is_busy (FwSpectrumPanel *self)
 {
   g_return_val_if_fail (FW_IS_SPECTRUM_PANEL (self), FALSE);
-  return self->busy || self->averaging;
+  return self->busy || self->averaging || self->reload_idle != 0;
 }
 
 guint
@@ -443,11 +471,19 @@ fw_spectrum_panel_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
       cairo_rectangle (cr, area.origin.x, area.origin.y, area.size.width, area.size.height);
       cairo_stroke (cr);
 
-      fw_theme_draw_text (cr, &theme, FW_TEXT_TITLE, self->title, area.origin.x,
-                          area.origin.y - theme.pad - 1, FW_ALIGN_START, FW_ALIGN_END, false);
-      fw_theme_set_source (cr, &theme.muted);
-      fw_theme_draw_text (cr, &theme, FW_TEXT_AXIS, quantity, area.origin.x + area.size.width,
-                          area.origin.y - theme.pad - 1, FW_ALIGN_END, FW_ALIGN_END, false);
+      {
+        double title_w = fw_theme_draw_text (cr, &theme, FW_TEXT_TITLE, self->title,
+                                             area.origin.x, area.origin.y - theme.pad - 1,
+                                             FW_ALIGN_START, FW_ALIGN_END, false);
+        double qw, qh;
+
+        /* the quantity at the right end, when it does not run into the heading */
+        fw_theme_text_size (cr, &theme, FW_TEXT_AXIS, quantity, &qw, &qh);
+        fw_theme_set_source (cr, &theme.muted);
+        if (title_w + qw + 16 < area.size.width)
+          fw_theme_draw_text (cr, &theme, FW_TEXT_AXIS, quantity, area.origin.x + area.size.width,
+                              area.origin.y - theme.pad - 1, FW_ALIGN_END, FW_ALIGN_END, false);
+      }
       {
         /* TRANSLATORS: axis title, %s is the unit (Hz or kHz) */
         g_autofree char *axis_title = g_strdup_printf (_("Frequency (%s)"), x_unit);
@@ -540,6 +576,9 @@ fw_spectrum_panel_dispose (GObject *object)
   g_clear_object (&self->cancellable);
   if (self->set != NULL)
     g_signal_handlers_disconnect_by_func (self->set, on_set_params_changed, self);
+  if (self->clip != NULL)
+    g_signal_handlers_disconnect_by_func (self->clip, on_clip_file_changed, self);
+  g_clear_handle_id (&self->reload_idle, g_source_remove);
   if (self->viewport != NULL)
     g_signal_handlers_disconnect_by_func (self->viewport, on_viewport_changed, self);
   g_clear_object (&self->set);

@@ -78,21 +78,21 @@ fw_time_ruler_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   cairo_move_to (cr, left, height - 0.5 * theme.line_width - 1);
   cairo_line_to (cr, right, height - 0.5 * theme.line_width - 1);
   cairo_stroke (cr);
-  /* the unit sits in the left gutter, level with the labels */
+  /* the unit of the labels ("s", "ms", "min:s") sits in the left gutter, level with them */
   fw_theme_set_source (cr, &theme.muted);
-  fw_theme_draw_text (cr, &theme, FW_TEXT_AXIS,
-                      fw_time_unit_axis_title (fw_time_unit_for_span (t0, t1)), left - 16,
+  fw_theme_draw_text (cr, &theme, FW_TEXT_AXIS, ticks.unit, left - 16,
                       height - theme.tick_length - theme.pad - 1, FW_ALIGN_END, FW_ALIGN_END,
                       false);
+
   cairo_destroy (cr);
 
   if (fw_viewport_has_cursor (self->viewport))
     {
-      double xc = round (fw_time_ruler_time_to_x (self, fw_viewport_get_cursor (self->viewport)));
+      double xc = floor (fw_time_ruler_time_to_x (self, fw_viewport_get_cursor (self->viewport)));
       GdkRGBA cursor = { 0.95, 0.30, 0.20, 0.95 };
       if (xc >= left && xc <= right)
         gtk_snapshot_append_color (snapshot, &cursor,
-                                   &GRAPHENE_RECT_INIT (xc - 0.5, height - 8, 1.5, 8));
+                                   &GRAPHENE_RECT_INIT (xc, height - 8, 1, 8));
     }
 }
 
@@ -109,6 +109,11 @@ fw_time_ruler_measure (GtkWidget *widget, GtkOrientation orientation, int for_si
 static void
 on_viewport_changed (FwViewport *viewport, guint what, FwTimeRuler *self)
 {
+  double t0, t1;
+
+  fw_viewport_get_visible (viewport, &t0, &t1);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (self), GTK_ACCESSIBLE_PROPERTY_DESCRIPTION,
+                                  fw_time_unit_axis_title (fw_time_unit_for_span (t0, t1)), -1);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 

@@ -329,6 +329,66 @@ action_pan_right (GSimpleAction *action, GVariant *param, gpointer user_data)
   pan (user_data, +1);
 }
 
+/* Keyboard access to the cursor and the selection: a step is 1/100 of the view. The cursor
+ * starts in the middle of the view; the selection grows from the cursor. */
+static void
+move_cursor (FwWindow *self, double direction, gboolean extend)
+{
+  double s, e, c = fw_viewport_get_cursor (self->viewport);
+  double step, next, a, b;
+
+  fw_viewport_get_visible (self->viewport, &s, &e);
+  step = (e - s) / 100.0;
+  if (c < s || c > e)
+    c = 0.5 * (s + e);
+  next = c + direction * step;
+  if (extend)
+    {
+      if (fw_viewport_get_selection (self->viewport, &a, &b))
+        {
+          /* move the end that sits at the cursor */
+          if (fabs (c - a) < fabs (c - b))
+            a = next;
+          else
+            b = next;
+        }
+      else
+        {
+          a = c;
+          b = next;
+        }
+      fw_viewport_set_selection (self->viewport, a, b);
+    }
+  fw_viewport_set_cursor (self->viewport, next);
+  /* keep the cursor in view */
+  if (next < s || next > e)
+    fw_viewport_pan (self->viewport, next < s ? next - s : next - e);
+}
+
+static void
+action_cursor_left (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  move_cursor (user_data, -1, FALSE);
+}
+
+static void
+action_cursor_right (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  move_cursor (user_data, +1, FALSE);
+}
+
+static void
+action_select_left (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  move_cursor (user_data, -1, TRUE);
+}
+
+static void
+action_select_right (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  move_cursor (user_data, +1, TRUE);
+}
+
 static void
 action_clear_selection (GSimpleAction *action, GVariant *param, gpointer user_data)
 {
@@ -544,6 +604,10 @@ static const GActionEntry win_actions[] = {
   { "pan-left", action_pan_left },
   { "pan-right", action_pan_right },
   { "clear-selection", action_clear_selection },
+  { "cursor-left", action_cursor_left },
+  { "cursor-right", action_cursor_right },
+  { "select-left", action_select_left },
+  { "select-right", action_select_right },
   { "cancel-work", action_cancel_work },
   { "recompute", action_recompute },
   { "toggle-sidebar", NULL, NULL, "true", change_toggle_sidebar },

@@ -19,7 +19,6 @@ struct _FwWindow {
   /* template children */
   GtkLabel *title_label;
   GtkLabel *subtitle_label;
-  GtkRevealer *banner_revealer;
   GtkWidget *banner_box;
   GtkImage *banner_icon;
   GtkLabel *banner_label;
@@ -57,6 +56,8 @@ struct _FwWindow {
   gboolean close_confirmed;
   guint duration_idle;
   guint adding_clips;      /* files being checked before they join the project */
+  char *clip_identity[2];  /* path|size|mtime of the clips shown, to notice relinks */
+  FwClip *identity_clip[2];  /* (unowned, compared only) */
   char *default_readout;
 };
 

@@ -26,7 +26,7 @@ show_banner (FwWindow *self, const char *icon, const char *css, const char *mess
   gtk_widget_remove_css_class (self->banner_box, "error");
   gtk_widget_remove_css_class (self->banner_box, "info");
   gtk_widget_add_css_class (self->banner_box, css);
-  gtk_revealer_set_reveal_child (self->banner_revealer, TRUE);
+  gtk_widget_set_visible (self->banner_box, TRUE);
 }
 
 void
@@ -47,13 +47,13 @@ fw_window_show_info (FwWindow *self, const char *message)
 static void
 on_banner_close (GtkButton *button, FwWindow *self)
 {
-  gtk_revealer_set_reveal_child (self->banner_revealer, FALSE);
+  gtk_widget_set_visible (self->banner_box, FALSE);
 }
 
 const char *
 _fw_window_get_banner_text (FwWindow *self)
 {
-  if (!gtk_revealer_get_reveal_child (self->banner_revealer))
+  if (!gtk_widget_get_visible (self->banner_box))
     return NULL;
   return gtk_label_get_text (self->banner_label);
 }
@@ -289,6 +289,36 @@ _fw_window_find_clip (FwWindow *self, const char *path)
   return NULL;
 }
 
+/* A relinked or rewritten file: the rows showing it compute again. */
+static void
+reload_if_files_changed (FwWindow *self)
+{
+  FwClip *clip1 = self->pinned_clip != NULL ? self->pinned_clip : self->clip;
+  g_autofree char *id0 = self->clip != NULL ? fw_clip_dup_identity (self->clip) : NULL;
+  g_autofree char *id1 = clip1 != NULL ? fw_clip_dup_identity (clip1) : NULL;
+  gboolean changed = FALSE;
+
+  /* the same clip objects as before, but their files changed (relinked, rewritten, gone) */
+  if (self->clip != NULL && self->identity_clip[0] == self->clip &&
+      g_strcmp0 (id0, self->clip_identity[0]) != 0)
+    changed = TRUE;
+  if (clip1 != NULL && self->identity_clip[1] == clip1 &&
+      g_strcmp0 (id1, self->clip_identity[1]) != 0)
+    changed = TRUE;
+  g_free (self->clip_identity[0]);
+  g_free (self->clip_identity[1]);
+  self->clip_identity[0] = g_steal_pointer (&id0);
+  self->clip_identity[1] = g_steal_pointer (&id1);
+  self->identity_clip[0] = self->clip;
+  self->identity_clip[1] = clip1;
+  if (changed)
+    {
+      /* the rows follow their clips' path and "missing" themselves; a file rewritten in
+       * place (same path, new contents) needs this */
+      fw_plot_stack_reload (self->plot_stack);
+    }
+}
+
 /* Keeps the selection valid after the document changed (clip or set removed). */
 static void
 on_project_changed (FwProject *project, FwWindow *self)
@@ -325,6 +355,7 @@ on_project_changed (FwProject *project, FwWindow *self)
     _fw_window_select (self, clip, set);
   else
     update_columns (self);
+  reload_if_files_changed (self);
   update_title (self);
 }
 
@@ -372,6 +403,9 @@ fw_window_set_project (FwWindow *self, FwProject *project)
     }
   /* Work for the old document is of no use any more. */
   fw_plot_stack_cancel (self->plot_stack);
+  fw_plot_stack_set_column (self->plot_stack, 1, NULL, NULL);
+  fw_plot_stack_set_column (self->plot_stack, 0, NULL, NULL);
+  fw_spectrum_panel_set_source (self->spectrum_panel, NULL, NULL);
   g_set_object (&self->project, project);
   set_cache (self, fw_project_get_feature_cache (project));
   self->project_changed_id = g_signal_connect (project, "changed",
@@ -398,7 +432,7 @@ fw_window_set_project (FwWindow *self, FwProject *project)
   _fw_window_select (self, first_clip, first_set);
   fw_viewport_fit (self->viewport);
   update_title (self);
-  gtk_revealer_set_reveal_child (self->banner_revealer, FALSE);
+  gtk_widget_set_visible (self->banner_box, FALSE);
 }
 
 FwProject *
@@ -535,7 +569,8 @@ add_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *canc
         }
       else
         {
-          g_string_append_printf (job->problems, "%s\n", error->message);
+          g_string_append_printf (job->problems, "%s%s", job->problems->len > 0 ? "; " : "",
+                                  error->message);
           g_free (info);
         }
     }
@@ -559,7 +594,9 @@ on_clips_checked (GObject *source, GAsyncResult *result, gpointer user_data)
 
       if (_fw_window_find_clip (self, path) != NULL)
         {
-          g_string_append_printf (job->problems, _("%s: already in the project\n"), path);
+          if (job->problems->len > 0)
+            g_string_append (job->problems, "; ");
+          g_string_append_printf (job->problems, _("%s: already in the project"), path);
           continue;
         }
       clip = fw_clip_new (path);
@@ -571,8 +608,7 @@ on_clips_checked (GObject *source, GAsyncResult *result, gpointer user_data)
   if (job->problems->len > 0)
     {
       g_autofree char *msg = NULL;
-      g_strchomp (job->problems->str);
-      msg = g_strdup_printf (_("Some files were not added:\n%s"), job->problems->str);
+      msg = g_strdup_printf (_("Some files were not added: %s"), job->problems->str);
       fw_window_show_error (self, msg);
     }
   g_signal_emit_by_name (self->plot_stack, "state-changed");
@@ -601,7 +637,9 @@ fw_window_add_clip_files (FwWindow *self, GFile **files, guint n_files)
       if (path == NULL)
         {
           g_autofree char *uri = g_file_get_uri (files[i]);
-          g_string_append_printf (job->problems, _("%s: not a local file\n"), uri);
+          if (job->problems->len > 0)
+            g_string_append (job->problems, "; ");
+          g_string_append_printf (job->problems, _("%s: not a local file"), uri);
         }
       else
         g_ptr_array_add (job->paths, path);
@@ -825,7 +863,7 @@ _fw_window_rebuild_rows_popover (FwWindow *self)
 static void
 on_cache_progress (FwFeatureCache *cache, guint pending, double fraction, FwWindow *self)
 {
-  gboolean busy = pending > 0 || fw_plot_stack_is_busy (self->plot_stack);
+  gboolean busy = pending > 0;   /* drawing a new picture is quick: no progress for it */
 
   gtk_widget_set_visible (self->progress_box, busy);
   if (busy)
@@ -1043,19 +1081,27 @@ fw_window_render_texture (FwWindow *self)
   GtkSnapshot *snapshot;
   g_autoptr (GskRenderNode) node = NULL;
   GskRenderer *renderer;
+  graphene_rect_t bounds;
 
   g_return_val_if_fail (FW_IS_WINDOW (self), NULL);
   if (width <= 0 || height <= 0 || gtk_native_get_renderer (GTK_NATIVE (self)) == NULL)
     return NULL;
+  /* The paintable covers the window's bounds, which include the frame margin around the
+   * window proper; draw it at its own size and cut out the window itself, unscaled. */
   paintable = gtk_widget_paintable_new (widget);
+  if (!gtk_widget_compute_bounds (widget, widget, &bounds))
+    return NULL;
   snapshot = gtk_snapshot_new ();
-  gdk_paintable_snapshot (paintable, GDK_SNAPSHOT (snapshot), width, height);
+  gdk_paintable_snapshot (paintable, GDK_SNAPSHOT (snapshot),
+                          gdk_paintable_get_intrinsic_width (paintable),
+                          gdk_paintable_get_intrinsic_height (paintable));
   node = gtk_snapshot_free_to_node (snapshot);
   if (node == NULL)
     return NULL;
   renderer = gtk_native_get_renderer (GTK_NATIVE (self));
   return gsk_renderer_render_texture (renderer, node,
-                                      &GRAPHENE_RECT_INIT (0, 0, width, height));
+                                      &GRAPHENE_RECT_INIT (-bounds.origin.x, -bounds.origin.y,
+                                                           width, height));
 }
 
 typedef struct {
@@ -1266,6 +1312,8 @@ fw_window_finalize (GObject *object)
 
   g_array_unref (self->rows);
   g_free (self->default_readout);
+  g_free (self->clip_identity[0]);
+  g_free (self->clip_identity[1]);
   G_OBJECT_CLASS (fw_window_parent_class)->finalize (object);
 }
 
@@ -1289,7 +1337,6 @@ fw_window_class_init (FwWindowClass *klass)
                                                "/org/framewise/Workbench/fw-window.ui");
   gtk_widget_class_bind_template_child (widget_class, FwWindow, title_label);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, subtitle_label);
-  gtk_widget_class_bind_template_child (widget_class, FwWindow, banner_revealer);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, banner_box);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, banner_icon);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, banner_label);

@@ -60,11 +60,39 @@ test_desktop_file_names_icon (void)
   g_assert_nonnull (strstr (svg, "<svg"));
 }
 
+/* The AppStream metadata passes appstreamcli (skipped when the tool is missing). */
+static void
+test_metainfo_valid (void)
+{
+  g_autofree char *tool = g_find_program_in_path ("appstreamcli");
+  g_autofree char *path = g_build_filename (FW_BUILD_DIR, "data", "org.framewise.Workbench.metainfo.xml", NULL);
+  g_autofree char *out = NULL, *err = NULL;
+  g_autoptr (GError) error = NULL;
+  int status = -1;
+  const char *argv[] = { NULL, "validate", "--no-net", NULL, NULL };
+
+  if (tool == NULL)
+    {
+      g_test_skip ("appstreamcli is not installed (Debian: appstream)");
+      return;
+    }
+  g_assert_true (g_file_test (path, G_FILE_TEST_EXISTS));
+  argv[0] = tool;
+  argv[3] = path;
+  g_assert_true (g_spawn_sync (NULL, (char **) argv, NULL, G_SPAWN_DEFAULT, NULL, NULL, &out,
+                               &err, &status, &error));
+  g_assert_no_error (error);
+  g_test_message ("appstreamcli: %s%s", out, err);
+  g_assert_true (g_spawn_check_wait_status (status, &error));
+  g_assert_no_error (error);
+}
+
 int
 main (int argc, char **argv)
 {
   g_test_init (&argc, &argv, NULL);
   g_test_add_func ("/fw/gtk/data/desktop-file-valid", test_desktop_file_valid);
   g_test_add_func ("/fw/gtk/data/desktop-file-names-icon", test_desktop_file_names_icon);
+  g_test_add_func ("/fw/gtk/data/metainfo-valid", test_metainfo_valid);
   return g_test_run ();
 }

@@ -109,6 +109,53 @@ test_save_close_reopen (void)
   fw_test_rm_rf (dir);
 }
 
+/* A clip whose file is missing is flagged in its rows; relinking it computes them. */
+static void
+test_missing_and_relink (void)
+{
+  g_autofree char *dir = fw_test_tmpdir ();
+  g_autofree char *path = g_build_filename (dir, "gone.fwproj", NULL);
+  g_autofree char *gone = g_build_filename (dir, "hive-that-moved.flac", NULL);
+  g_autofree char *demo = fw_project_demo_path ();
+  g_autofree char *demo_dir = g_path_get_dirname (demo);
+  g_autofree char *real = g_build_filename (demo_dir, "calm-colony-01.flac", NULL);
+  g_autoptr (FwProject) project = fw_project_new ();
+  g_autoptr (FwParamSet) set = fw_param_set_new ("default", fw_params_new_default ());
+  g_autoptr (FwClip) clip = fw_clip_new (gone);
+  g_autoptr (GError) error = NULL;
+  FwWindow *w;
+  FwPlotRow *mfcc;
+  FwClip *shown;
+
+  g_assert_true (fw_project_add_param_set (project, set, &error));
+  fw_project_add_clip (project, clip);
+  g_assert_true (fw_project_save (project, path, &error));
+  g_assert_no_error (error);
+
+  w = fw_window_new (FW_APPLICATION (g_application_get_default ()));
+  g_assert_true (fw_window_open_project (w, path));
+  gtk_window_present (GTK_WINDOW (w));
+  g_assert_true (fw_test_wait_settled (w, 60));
+  shown = _fw_window_get_clip (w);
+  g_assert_true (fw_clip_get_missing (shown));
+  mfcc = fw_plot_stack_get_row (_fw_window_get_plot_stack (w), 0, FW_PLOT_MFCC);
+  g_assert_nonnull (fw_plot_row_get_message (mfcc));
+  g_test_message ("missing: %s", fw_plot_row_get_message (mfcc));
+  g_assert_nonnull (strstr (fw_plot_row_get_message (mfcc), "hive-that-moved.flac"));
+  g_assert_null (fw_plot_row_get_matrix (mfcc));
+
+  fw_clip_set_path (shown, real);
+  g_assert_false (fw_clip_get_missing (shown));
+  g_assert_true (fw_test_wait_settled (w, 120));
+  g_assert_null (fw_plot_row_get_message (mfcc));
+  g_assert_nonnull (fw_plot_row_get_matrix (mfcc));
+  g_assert_cmpuint (fw_spectrum_panel_get_frames (_fw_window_get_spectrum_panel (w), NULL), ==,
+                    fw_plot_row_get_matrix (mfcc)->n_frames);
+  g_assert_true (fw_project_get_dirty (fw_window_get_project (w)));
+  fw_window_close_discarding (w);
+  fw_test_rm_rf (dir);
+}
+
 int
 main (int argc, char **argv)
 {
@@ -119,5 +166,6 @@ main (int argc, char **argv)
       return 0;
     }
   g_test_add_func ("/fw/gtk/project/save-close-reopen", test_save_close_reopen);
+  g_test_add_func ("/fw/gtk/project/missing-and-relink", test_missing_and_relink);
   return g_test_run ();
 }
