@@ -87,19 +87,6 @@ file_options (const CliOptions *o, FwFeatureFileOptions *fo, GError **error)
   return TRUE;
 }
 
-static FwParams *
-load_params (const char *path, char **settings, GError **error)
-{
-  g_autoptr (FwParams) base = NULL;
-
-  base = path ? fw_params_new_from_file (path, error) : fw_params_new_default ();
-  if (base == NULL)
-    return NULL;
-  if (settings && settings[0])
-    return fw_params_with_settings (base, (const char *const *) settings, error);
-  return g_steal_pointer (&base);
-}
-
 static FwCompareOperand *
 parse_operand (const char *arg, const CliOptions *o, FwStage stage, GError **error)
 {
@@ -124,12 +111,12 @@ parse_operand (const char *arg, const CliOptions *o, FwStage stage, GError **err
                        _("Operand '%s': expected CLIP@PARAMS_FILE"), arg);
           return NULL;
         }
-      params = load_params (at + 1, o->settings, error);
+      params = fw_cli_load_params (at + 1, o->settings, error);
     }
   else
     {
       clip = g_strdup (arg);
-      params = load_params (o->params_path, o->settings, error);
+      params = fw_cli_load_params (o->params_path, o->settings, error);
     }
   if (params == NULL)
     return NULL;
@@ -385,7 +372,7 @@ fw_cli_explain (int argc, char **argv)
       goto out;
     }
   dump = fw_compare_operand_new_file (argv[1], &fo, stage);
-  params = load_params (o.params_path, o.settings, &error);
+  params = fw_cli_load_params (o.params_path, o.settings, &error);
   if (params == NULL)
     {
       fw_cli_error ("%s", error->message);

@@ -57,60 +57,11 @@ value_of (const FwParams *params, const char *key)
   return values[i];
 }
 
-static FwParams *
-load_params (const char *file, char **settings, GError **error)
-{
-  g_autoptr (FwParams) base = NULL;
-  g_autoptr (GError) local = NULL;
-  FwParams *p;
-
-  if (file != NULL)
-    base = fw_params_new_from_file (file, error);
-  else
-    base = fw_params_new_default ();
-  if (base == NULL)
-    return NULL;
-  if (settings == NULL || settings[0] == NULL)
-    return g_steal_pointer (&base);
-  p = fw_params_with_settings (base, (const char *const *) settings, &local);
-  if (p == NULL)
-    g_set_error (error, local->domain, local->code, "--set: %s", local->message);
-  return p;
-}
-
 static void
 print_warnings (GPtrArray *warnings)
 {
   for (guint i = 0; i < warnings->len; i++)
     fw_cli_error (_("warning: %s"), (const char *) g_ptr_array_index (warnings, i));
-}
-
-static GOptionContext *
-make_context (const char *parameter_string, const char *summary, GOptionEntry *entries)
-{
-  GOptionContext *ctx = g_option_context_new (parameter_string);
-
-  g_option_context_set_summary (ctx, summary);
-  g_option_context_add_main_entries (ctx, entries, GETTEXT_PACKAGE);
-  g_option_context_set_translation_domain (ctx, GETTEXT_PACKAGE);
-  return ctx;
-}
-
-static gboolean
-parse_options (GOptionContext *ctx, const char *command, int *argc, char ***argv)
-{
-  g_autoptr (GError) error = NULL;
-  g_autofree char *prgname = g_strdup_printf ("framewise-cli %s", command);
-
-  /* so that --help and usage messages read "framewise-cli features [OPTION...]" */
-  g_set_prgname (prgname);
-
-  if (!g_option_context_parse (ctx, argc, argv, &error))
-    {
-      fw_cli_error ("%s: %s", command, error->message);
-      return FALSE;
-    }
-  return TRUE;
 }
 
 static void
@@ -163,8 +114,8 @@ fw_cli_features (int argc, char **argv)
   summary = g_strdup_printf (_("Computes one stage of the analysis for a clip and writes it as a "
                                "frames x bins matrix.\nStages: %s.\nParameter keys: see "
                                "'framewise-cli params --help'."), names);
-  ctx = make_context (_("CLIP STAGE"), summary, entries);
-  if (!parse_options (ctx, argv[0], &argc, &argv))
+  ctx = fw_cli_option_context_new (_("CLIP STAGE"), summary, entries);
+  if (!fw_cli_parse_options (ctx, argv[0], &argc, &argv))
     return FW_CLI_EXIT_ERROR;
   if (argc != 3)
     {
@@ -190,7 +141,7 @@ fw_cli_features (int argc, char **argv)
       fw_cli_error ("%s", error->message);
       return FW_CLI_EXIT_ERROR;
     }
-  params = load_params (params_file, settings, &error);
+  params = fw_cli_load_params (params_file, settings, &error);
   if (params == NULL)
     {
       fw_cli_error ("%s", error->message);
@@ -234,7 +185,7 @@ fw_cli_features (int argc, char **argv)
   {
     g_autofree char *out_display = g_filename_display_name (output);
     g_autofree char *resampled = fw_audio_describe_resampling (audio);
-    g_printf (_("%s: %s, %" G_GSIZE_FORMAT " frames x %" G_GSIZE_FORMAT " bins (%s), "
+    g_printf (_("%s: %s, %zu frames x %zu bins (%s), "
                 "parameters %s%s%s\n"),
               out_display, fw_feature_stage_name (stage, params), m->n_frames, m->n_bins, label,
               fw_params_get_hash (params), resampled != NULL ? "; " : "",
@@ -252,11 +203,11 @@ print_sizes (const char *names, gsize frames, gsize bins, gboolean each)
   guint64 bytes = (guint64) frames * bins * 4;
 
   if (each)
-    g_printf (_("    %s: %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT " = %" G_GUINT64_FORMAT
-                " bytes each\n"), names, frames, bins, bytes);
+    g_printf (_("    %s: %zu x %zu = %llu bytes each\n"), names, frames, bins,
+              (unsigned long long) bytes);
   else
-    g_printf (_("    %s: %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT " = %" G_GUINT64_FORMAT
-                " bytes\n"), names, frames, bins, bytes);
+    g_printf (_("    %s: %zu x %zu = %llu bytes\n"), names, frames, bins,
+              (unsigned long long) bytes);
 }
 
 int
@@ -286,9 +237,9 @@ fw_cli_info (int argc, char **argv)
   double rate, bin_hz;
   gsize frames;
 
-  ctx = make_context (_("CLIP"), _("Prints a clip's file facts and the analysis facts that help "
+  ctx = fw_cli_option_context_new (_("CLIP"), _("Prints a clip's file facts and the analysis facts that help "
                                    "to choose window and hop."), entries);
-  if (!parse_options (ctx, argv[0], &argc, &argv))
+  if (!fw_cli_parse_options (ctx, argv[0], &argc, &argv))
     return FW_CLI_EXIT_ERROR;
   if (argc != 2)
     {
@@ -296,7 +247,7 @@ fw_cli_info (int argc, char **argv)
       return FW_CLI_EXIT_ERROR;
     }
 
-  params = load_params (params_file, settings, &error);
+  params = fw_cli_load_params (params_file, settings, &error);
   if (params == NULL)
     {
       fw_cli_error ("%s", error->message);
@@ -320,8 +271,8 @@ fw_cli_info (int argc, char **argv)
     g_printf (_("  bit depth: %d\n"), fi->bit_depth);
   else
     g_printf (_("  bit depth: not applicable (%s)\n"), fi->encoding);
-  g_printf (_("  duration: %s s (%" G_GINT64_FORMAT " samples per channel)\n"),
-            num ("%.6f", fi->duration), fi->frames);
+  g_printf (_("  duration: %s s (%lld samples per channel)\n"),
+            num ("%.6f", fi->duration), (long long) fi->frames);
   g_printf (_("  peak: %s dBFS\n"), num ("%.2f", fi->peak_dbfs));
   g_printf (_("  RMS: %s dBFS (AES17: RMS in dB re full scale plus 3.01 dB, so a full-scale sine "
               "reads 0 dBFS)\n"), num ("%.2f", fi->rms_dbfs));
@@ -347,15 +298,15 @@ fw_cli_info (int argc, char **argv)
     g_printf (_("  analysis rate: %s Hz (%s)\n"), num ("%.15g", rate), resampled);
   else
     g_printf (_("  analysis rate: %s Hz (the file's rate, not resampled)\n"), num ("%.15g", rate));
-  g_printf (_("  samples analysed: %" G_GSIZE_FORMAT " (%s s)\n"), audio->n_samples,
+  g_printf (_("  samples analysed: %zu (%s s)\n"), audio->n_samples,
             num ("%.6f", audio->n_samples / rate));
-  g_printf (_("  window: %s %s, %" G_GSIZE_FORMAT " samples = %s ms\n"),
+  g_printf (_("  window: %s %s, %zu samples = %s ms\n"),
             value_of (params, "window_symmetry"), value_of (params, "window"),
             cfg.window_length, num ("%.2f", 1000.0 * cfg.window_length / rate));
-  g_printf (_("  hop: %" G_GSIZE_FORMAT " samples = %s ms, %s frames per second\n"),
+  g_printf (_("  hop: %zu samples = %s ms, %s frames per second\n"),
             cfg.hop_length, num ("%.2f", 1000.0 * cfg.hop_length / rate),
             num ("%.2f", rate / cfg.hop_length));
-  g_printf (_("  FFT: %" G_GSIZE_FORMAT " points, %" G_GSIZE_FORMAT " bins, %s Hz per bin\n"),
+  g_printf (_("  FFT: %zu points, %zu bins, %s Hz per bin\n"),
             cfg.fft_length, cfg.fft_length / 2 + 1, num ("%.4f", bin_hz));
   if (fw_window_merit (cfg.window, cfg.window_symmetry, cfg.window_length, &merit) == FW_DSP_OK)
     {
@@ -372,13 +323,13 @@ fw_cli_info (int argc, char **argv)
                   num ("%.2f", rate / (double) cfg.window_length / 2));
     }
   if (cfg.centered)
-    g_printf (_("  frames: %" G_GSIZE_FORMAT " (centred: %" G_GSIZE_FORMAT " samples of %s "
+    g_printf (_("  frames: %zu (centred: %zu samples of %s "
                 "padding at each end)\n"),
               frames, cfg.fft_length / 2,
               cfg.padding == FW_PADDING_ZEROS ? _("zero")
               : cfg.padding == FW_PADDING_REFLECT ? _("reflected") : _("edge-replicating"));
   else
-    g_printf (_("  frames: %" G_GSIZE_FORMAT " (not centred, no padding)\n"), frames);
+    g_printf (_("  frames: %zu (not centred, no padding)\n"), frames);
 
   bank = fw_mel_bank_new (cfg.mel_scale, cfg.mel_weights, cfg.mel_bands, cfg.fmin, cfg.fmax,
                           rate, cfg.fft_length, &status);
@@ -386,7 +337,7 @@ fw_cli_info (int argc, char **argv)
     {
       const double *edges = fw_mel_bank_edges_hz (bank);
       gsize n_edges = cfg.mel_bands + 2;
-      g_printf (_("  mel bands: %" G_GSIZE_FORMAT " (%s scale, %s weights) from %s to %s Hz; "
+      g_printf (_("  mel bands: %zu (%s scale, %s weights) from %s to %s Hz; "
                   "band m spans edges m to m+2; edges in Hz:\n"),
                 cfg.mel_bands, value_of (params, "mel_scale"),
                 value_of (params, "mel_weights"), num ("%.15g", cfg.fmin),
@@ -452,15 +403,15 @@ fw_cli_params (int argc, char **argv)
                                "Keys:\n%s"), keys->str);
   g_string_free (keys, TRUE);
 
-  ctx = make_context ("", summary, entries);
-  if (!parse_options (ctx, argv[0], &argc, &argv))
+  ctx = fw_cli_option_context_new ("", summary, entries);
+  if (!fw_cli_parse_options (ctx, argv[0], &argc, &argv))
     return FW_CLI_EXIT_ERROR;
   if (argc != 1)
     {
       usage_error (ctx, argv[0], _("too many arguments"));
       return FW_CLI_EXIT_ERROR;
     }
-  params = load_params (params_file, settings, &error);
+  params = fw_cli_load_params (params_file, settings, &error);
   if (params == NULL)
     {
       fw_cli_error ("%s", error->message);

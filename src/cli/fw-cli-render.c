@@ -42,32 +42,6 @@ __lsan_default_suppressions (void)
   return "leak:libfontconfig.so\n";
 }
 
-static GOptionContext *
-make_context (const char *parameter_string, const char *summary, GOptionEntry *entries)
-{
-  GOptionContext *ctx = g_option_context_new (parameter_string);
-
-  g_option_context_set_summary (ctx, summary);
-  g_option_context_add_main_entries (ctx, entries, GETTEXT_PACKAGE);
-  g_option_context_set_translation_domain (ctx, GETTEXT_PACKAGE);
-  return ctx;
-}
-
-static gboolean
-parse_options (GOptionContext *ctx, const char *command, int *argc, char ***argv)
-{
-  g_autoptr (GError) error = NULL;
-  g_autofree char *prgname = g_strdup_printf ("framewise-cli %s", command);
-
-  g_set_prgname (prgname);
-  if (!g_option_context_parse (ctx, argc, argv, &error))
-    {
-      fw_cli_error ("%s: %s", command, error->message);
-      return FALSE;
-    }
-  return TRUE;
-}
-
 /* A number option given as text (so that errors can name it); C locale. */
 static gboolean
 parse_number (const char *option, const char *text, double *out)
@@ -97,24 +71,6 @@ list_colour_scales (void)
             fw_colour_scale_get_kind (list[i]) == FW_COLOUR_SCALE_DIVERGING ? _("diverging")
                                                                              : _("sequential"),
             fw_colour_scale_get_description (list[i]));
-}
-
-static FwParams *
-load_params (const char *file, char **settings, GError **error)
-{
-  g_autoptr (FwParams) base = NULL;
-  g_autoptr (GError) local = NULL;
-  FwParams *p;
-
-  base = file ? fw_params_new_from_file (file, error) : fw_params_new_default ();
-  if (base == NULL)
-    return NULL;
-  if (settings == NULL || settings[0] == NULL)
-    return g_steal_pointer (&base);
-  p = fw_params_with_settings (base, (const char *const *) settings, &local);
-  if (p == NULL)
-    g_set_error (error, local->domain, local->code, "--set: %s", local->message);
-  return p;
 }
 
 /* Width: a number of mm or a preset name. */
@@ -225,6 +181,10 @@ fw_cli_render (int argc, char **argv)
   g_autofree char *mel_labels = NULL, *amplitude_opt = NULL;
   g_auto (GStrv) settings = NULL;
   gboolean list_scales = FALSE, methods = FALSE, no_letters = FALSE, no_caption = FALSE;
+  /* formatted here, not concatenated inside N_(): xgettext would cut the message at the macro */
+  g_autofree char *rows_help =
+    g_strdup_printf (_("Rows from top to bottom, comma-separated: waveform and stage names "
+                       "(default %s)"), DEFAULT_ROWS);
   GOptionEntry entries[] = {
     { "params", 'p', 0, G_OPTION_ARG_STRING, &params_opt,
       N_("Parameter file (with a CLIP), or a parameter set's name (with --project)"),
@@ -236,9 +196,7 @@ fw_cli_render (int argc, char **argv)
     { "clip", 'c', 0, G_OPTION_ARG_STRING, &clip_opt,
       N_("With --project: the clip, by 1-based number, file name or path"), N_("N") },
     { "rows", 'r', 0, G_OPTION_ARG_STRING, &rows,
-      N_("Rows from top to bottom, comma-separated: waveform and stage names "
-         "(default " DEFAULT_ROWS ")"),
-      N_("LIST") },
+      rows_help, N_("LIST") },
     { "width-mm", 'w', 0, G_OPTION_ARG_STRING, &width_opt,
       N_("Figure width in mm, or single (85 mm) or double (175 mm); default single"), N_("W") },
     { "height-mm", 'H', 0, G_OPTION_ARG_STRING, &height_opt,
@@ -296,12 +254,12 @@ fw_cli_render (int argc, char **argv)
   FwExportSettings es;
   double duration, t0 = 0, t1 = 0;
 
-  ctx = make_context (_("[CLIP]"),
+  ctx = fw_cli_option_context_new (_("[CLIP]"),
                       _("Draws a publication figure: time-aligned rows (waveform, spectrograms, "
                         "MFCC, deltas, descriptors) with colour bars, as SVG, PDF or PNG with the "
                         "parameters embedded (read them back with figure-recipe)."),
                       entries);
-  if (!parse_options (ctx, command, &argc, &argv))
+  if (!fw_cli_parse_options (ctx, command, &argc, &argv))
     return FW_CLI_EXIT_ERROR;
 
   if (list_scales)
@@ -511,7 +469,7 @@ fw_cli_render (int argc, char **argv)
           fw_cli_error (_("%s: one CLIP only (got \"%s\" as well)"), command, argv[2]);
           return FW_CLI_EXIT_ERROR;
         }
-      params = load_params (params_opt, settings, &error);
+      params = fw_cli_load_params (params_opt, settings, &error);
       if (params == NULL)
         {
           fw_cli_error ("%s", error->message);
@@ -652,12 +610,12 @@ fw_cli_figure_recipe (int argc, char **argv)
   g_autofree char *rows = NULL;
   const char *command = argv[0];
 
-  ctx = make_context (_("FILE"),
+  ctx = fw_cli_option_context_new (_("FILE"),
                       _("Prints the parameters embedded in a figure written by 'framewise-cli "
                         "render' (SVG, PDF or PNG): clip, parameter set, hash and rows as "
                         "comments, then the parameter text, which --params reads back."),
                       entries);
-  if (!parse_options (ctx, command, &argc, &argv))
+  if (!fw_cli_parse_options (ctx, command, &argc, &argv))
     return FW_CLI_EXIT_ERROR;
   if (argc != 2)
     {

@@ -23,6 +23,18 @@ int fw_cli_figure_recipe (int argc, char **argv);
 int fw_cli_compare (int argc, char **argv);
 int fw_cli_explain (int argc, char **argv);
 
+/* Shared by the subcommands (fw-cli-common.c). */
+typedef struct _FwParams FwParams;
+/* The parameter set from FILE (NULL = the defaults) with the "KEY=VALUE" settings of --set
+ * applied in order; errors name the file or the --set value. */
+FwParams *fw_cli_load_params (const char *file, char **settings, GError **error);
+/* A GOptionContext in the framewise domain with a summary and main entries. */
+GOptionContext *fw_cli_option_context_new (const char *parameter_string, const char *summary,
+                                           GOptionEntry *entries);
+/* Parses; usage messages read "framewise-cli COMMAND ...". FALSE after printing the error. */
+gboolean fw_cli_parse_options (GOptionContext *ctx, const char *command, int *argc,
+                               char ***argv);
+
 /* Prints "framewise-cli: " + message to stderr. */
 void fw_cli_error (const char *format, ...) G_GNUC_PRINTF (1, 2);
 

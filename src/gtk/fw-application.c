@@ -25,6 +25,14 @@ static const GOptionEntry option_entries[] = {
     N_("FILE.png") },
   { "size", 0, 0, G_OPTION_ARG_STRING, NULL,
     N_("Window size in pixels, e.g. 1400x900"), N_("WxH") },
+  { "compare", 0, 0, G_OPTION_ARG_STRING_ARRAY, NULL,
+    N_("Open the compare view: give it twice for sides A and B (each CLIP@SET, a clip and a "
+       "parameter set of the project, or for B a .npy/.csv feature file), or once with the "
+       "name or number of a comparison saved in the project"),
+    N_("CLIP@SET|FILE|NAME") },
+  { "compare-stage", 0, 0, G_OPTION_ARG_STRING, NULL,
+    N_("Stage compared by --compare with two sides: db (default), mel-db, mfcc, delta, "
+       "delta2, power, mel"), N_("STAGE") },
   { "version", 0, 0, G_OPTION_ARG_NONE, NULL, N_("Print the version and quit"), NULL },
   { G_OPTION_REMAINING, 0, 0, G_OPTION_ARG_FILENAME_ARRAY, NULL, NULL,
     NULL },
@@ -234,6 +242,8 @@ fw_application_command_line (GApplication *app, GApplicationCommandLine *cmdline
   g_autofree char *screenshot = NULL;
   g_autofree char *size = NULL;
   g_autofree const char **rest = NULL;
+  g_autofree const char **compare = NULL;
+  g_autofree char *compare_stage = NULL;
   gboolean demo = g_variant_dict_contains (options, "demo");
   int width = 0, height = 0;
   FwWindow *win;
@@ -242,6 +252,14 @@ fw_application_command_line (GApplication *app, GApplicationCommandLine *cmdline
   g_variant_dict_lookup (options, "screenshot", "^ay", &screenshot);
   g_variant_dict_lookup (options, "size", "s", &size);
   g_variant_dict_lookup (options, G_OPTION_REMAINING, "^a&ay", &rest);
+  g_variant_dict_lookup (options, "compare", "^a&s", &compare);
+  g_variant_dict_lookup (options, "compare-stage", "s", &compare_stage);
+  if (compare != NULL && (compare[0] == NULL || (compare[1] != NULL && compare[2] != NULL)))
+    {
+      g_application_command_line_printerr (cmdline,
+        _("framewise: --compare is given once (a saved comparison) or twice (sides A and B)\n"));
+      return 2;
+    }
 
   if (size != NULL && !parse_size (size, &width, &height))
     {
@@ -286,6 +304,25 @@ fw_application_command_line (GApplication *app, GApplicationCommandLine *cmdline
         opened = fw_window_open_project (win, recent[0]);
       if (!opened)
         fw_window_open_demo (win);
+    }
+
+  if (compare != NULL)
+    {
+      g_autoptr (GError) error = NULL;
+      gboolean ok = compare[1] != NULL
+                      ? fw_window_compare (win, compare[0], compare[1], compare_stage, &error)
+                      : fw_window_open_comparison_by_name (win, compare[0], &error);
+      if (!ok && error != NULL)
+        {
+          g_application_command_line_printerr (cmdline, "framewise: --compare: %s\n",
+                                               error->message);
+          if (screenshot != NULL)
+            {
+              fw_window_close_discarding (win);
+              return 2;
+            }
+          fw_window_show_error (win, error->message);
+        }
     }
 
   gtk_window_present (GTK_WINDOW (win));

@@ -125,6 +125,11 @@ clip_menu (FwClip *clip)
   g_menu_item_set_action_and_target (item, "win.pin-clip", "s", path);
   g_menu_append_item (section, item);
   g_object_unref (item);
+
+  item = g_menu_item_new (_("Compare With…"), NULL);
+  g_menu_item_set_action_and_target (item, "win.compare-with", "s", path);
+  g_menu_append_item (section, item);
+  g_object_unref (item);
   g_menu_append_section (menu, NULL, G_MENU_MODEL (section));
   g_object_unref (section);
 

@@ -104,6 +104,17 @@ draw_trace (cairo_t *cr, const FwTheme *theme, const FwPlotDrawInfo *info)
   cairo_fill_preserve (cr);
   cairo_clip (cr);
   fw_axis_init (&axis, FW_AXIS_LINEAR, range.lo, range.hi, info->y + info->h, info->y);
+  if (info->zero_line)
+    {
+      double zy = round (fw_axis_value_to_pixel (&axis, 0)) + 0.5;
+      cairo_save (cr);
+      fw_theme_set_source (cr, &theme->muted);
+      cairo_set_line_width (cr, 1);
+      cairo_move_to (cr, info->x, zy);
+      cairo_line_to (cr, info->x + info->w, zy);
+      cairo_stroke (cr);
+      cairo_restore (cr);
+    }
   for (size_t t = 0; t < m->n_frames; t++)
     {
       double time = m->frame_times[t];
@@ -137,7 +148,9 @@ fw_plot_draw_row (cairo_t *cr, const FwTheme *theme, const FwPlotDrawInfo *info)
   g_autofree char *quantity = NULL;
 
   /* title above the data area, quantity in the colour-bar label or beside the title */
-  if (info->params != NULL && info->stage != FW_STAGE_SIGNAL)
+  if (info->quantity != NULL)
+    quantity = g_strdup (info->quantity);
+  else if (info->params != NULL && info->stage != FW_STAGE_SIGNAL)
     quantity = fw_feature_quantity_label (info->stage, info->params);
 
   fw_theme_set_source (cr, &theme->foreground);

@@ -35,6 +35,8 @@ typedef struct {
   double x, y, w, h;               /* data area */
   FwWaveformEnvelope **envelope;   /* waveform rows: cache (reused while it fits) */
   const char *title;
+  const char *quantity;            /* replaces the stage's quantity label when not NULL */
+  gboolean zero_line;              /* curve rows: a line at zero (differences) */
 } FwPlotDrawInfo;
 
 /* Title, frame, value axis, colour bar (heatmaps), waveform envelope or descriptor trace. */

@@ -137,6 +137,14 @@ struct _FwPlotRow {
   GtkWidget *menu_button;
   GtkWidget *popover_box;
   guint reload_idle;
+
+  /* Rows whose data the caller gives (fw_plot_row_set_data): no clip, set or cache. */
+  gboolean external;
+  FwStage data_stage;
+  gboolean signed_values;  /* differences: diverging scale, symmetric range, mean aggregation */
+  char *title;             /* replaces the kind's title */
+  char *quantity;          /* replaces the stage's quantity label */
+  char *unit;              /* replaces the stage's value unit */
 };
 
 G_DEFINE_FINAL_TYPE (FwPlotRow, fw_plot_row, GTK_TYPE_WIDGET)
@@ -163,7 +171,34 @@ fw_plot_row_get_kind (FwPlotRow *self)
 static FwStage
 row_stage (FwPlotRow *self)
 {
-  return fw_plot_kind_stage (self->kind);
+  return self->external ? self->data_stage : fw_plot_kind_stage (self->kind);
+}
+
+static const char *
+row_title (FwPlotRow *self)
+{
+  return self->title != NULL ? self->title : fw_plot_kind_title (self->kind);
+}
+
+/* The label of the values shown; caller frees. */
+static char *
+row_quantity (FwPlotRow *self)
+{
+  if (self->quantity != NULL)
+    return g_strdup (self->quantity);
+  if (self->params == NULL)
+    return g_strdup ("");
+  return fw_feature_quantity_label (row_stage (self), self->params);
+}
+
+static const char *
+row_unit (FwPlotRow *self)
+{
+  if (self->unit != NULL)
+    return self->unit;
+  if (self->params == NULL)
+    return "";
+  return fw_feature_value_unit (row_stage (self), self->params);
 }
 
 static gboolean
@@ -236,6 +271,7 @@ typedef struct {
   FwMatrix *matrix;
   FwStage stage;
   gboolean heatmap;
+  gboolean signed_values;
   FwHeatmapSpec spec;
   gboolean have_spec;
   FwValueRange range;
@@ -257,12 +293,31 @@ prepare_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *
   if (p->heatmap)
     {
       fw_heatmap_spec_init (&p->spec, p->matrix, p->stage);
+      if (p->signed_values)
+        {
+          /* differences: zero at the diverging scale's neutral midpoint, means per pixel */
+          FwValueRange r;
+          p->spec.scale = fw_colour_scale_default (FW_COLOUR_SCALE_DIVERGING);
+          p->spec.aggregate = FW_AGGREGATE_MEAN;
+          if (fw_value_range_auto (p->matrix, FW_RANGE_RULE_SYMMETRIC, 0, 0, &r))
+            p->spec.range = r;
+        }
       p->have_spec = TRUE;
       p->range = p->spec.range;
       p->have_range = TRUE;
     }
   else
-    p->have_range = fw_value_range_auto (p->matrix, FW_RANGE_RULE_PERCENTILE, 0, 0, &p->range);
+    {
+      p->have_range = fw_value_range_auto (p->matrix, FW_RANGE_RULE_PERCENTILE, 0, 0, &p->range);
+      if (p->have_range && p->signed_values)
+        {
+          /* curves of differences keep zero in view */
+          p->range.lo = MIN (p->range.lo, 0);
+          p->range.hi = MAX (p->range.hi, 0);
+          if (!(p->range.hi > p->range.lo))
+            p->range.hi = p->range.lo + 1;
+        }
+    }
   g_task_return_boolean (task, TRUE);
 }
 
@@ -276,7 +331,7 @@ static void
 load_data_free (LoadData *data)
 {
   g_object_unref (data->row);
-  fw_params_unref (data->params);
+  g_clear_pointer (&data->params, fw_params_unref);
   g_free (data);
 }
 
@@ -325,6 +380,7 @@ finish_load (FwPlotRow *self, LoadData *data, FwMatrix *matrix, FwAudio *audio, 
       p->matrix = fw_matrix_ref (matrix);
       p->stage = row_stage (self);
       p->heatmap = fw_plot_kind_is_heatmap (self->kind);
+      p->signed_values = self->signed_values;
       g_task_set_source_tag (task, finish_load);
       g_task_set_task_data (task, p, (GDestroyNotify) prepared_free);
       g_task_run_in_thread (task, prepare_thread);
@@ -357,7 +413,7 @@ on_prepared (GObject *source, GAsyncResult *result, gpointer user_data)
       self->busy = FALSE;
       set_message (self, NULL);
       g_clear_pointer (&self->params, fw_params_unref);
-      self->params = fw_params_ref (data->params);
+      self->params = data->params != NULL ? fw_params_ref (data->params) : NULL;
       drop_caches (self);
       g_clear_pointer (&self->matrix, fw_matrix_unref);
       self->matrix = fw_matrix_ref (p->matrix);
@@ -436,6 +492,8 @@ start_load (FwPlotRow *self)
   FwParams *params;
   LoadData *data;
 
+  if (self->external)
+    return;   /* the caller gives the data */
   if (self->cancellable != NULL)
     g_cancellable_cancel (self->cancellable);
   g_clear_object (&self->cancellable);
@@ -597,6 +655,87 @@ fw_plot_row_reload (FwPlotRow *self)
 }
 
 void
+fw_plot_row_set_data (FwPlotRow *self, FwMatrix *matrix, FwParams *params, FwStage stage,
+                      const char *title, const char *quantity, const char *unit,
+                      gboolean signed_values)
+{
+  LoadData *data;
+  Prepared *p;
+  GTask *task;
+
+  g_return_if_fail (FW_IS_PLOT_ROW (self));
+
+  /* leave the cache-driven mode for good */
+  if (self->cancellable != NULL)
+    g_cancellable_cancel (self->cancellable);
+  g_clear_object (&self->cancellable);
+  g_clear_pointer (&self->pending, fw_params_unref);
+  if (self->set != NULL)
+    g_signal_handlers_disconnect_by_func (self->set, on_set_params_changed, self);
+  if (self->clip != NULL)
+    g_signal_handlers_disconnect_by_func (self->clip, on_clip_file_changed, self);
+  g_clear_handle_id (&self->reload_idle, g_source_remove);
+  g_clear_object (&self->clip);
+  g_clear_object (&self->set);
+  g_clear_object (&self->cache);
+
+  if (!self->external || self->signed_values != signed_values)
+    self->scale = fw_colour_scale_default (signed_values ? FW_COLOUR_SCALE_DIVERGING
+                                                         : fw_colour_scale_kind_for_stage (stage));
+  self->external = TRUE;
+  self->data_stage = stage;
+  self->signed_values = signed_values;
+  g_free (self->title);
+  self->title = g_strdup (title);
+  g_free (self->quantity);
+  self->quantity = g_strdup (quantity);
+  g_free (self->unit);
+  self->unit = g_strdup (unit);
+  self->generation++;
+  set_message (self, NULL);
+
+  if (matrix == NULL)
+    {
+      self->busy = FALSE;
+      g_clear_pointer (&self->matrix, fw_matrix_unref);
+      g_clear_pointer (&self->params, fw_params_unref);
+      self->have_auto = FALSE;
+      self->have_base_spec = FALSE;
+      self->have_trace_range = FALSE;
+      drop_caches (self);
+      g_clear_object (&self->texture);
+      emit_state (self);
+      return;
+    }
+
+  /* prepared for drawing in a worker, as computed rows are */
+  self->busy = TRUE;
+  self->cancellable = g_cancellable_new ();
+  data = g_new0 (LoadData, 1);
+  data->row = g_object_ref (self);
+  data->generation = self->generation;
+  data->params = params != NULL ? fw_params_ref (params) : NULL;
+  p = g_new0 (Prepared, 1);
+  p->matrix = fw_matrix_ref (matrix);
+  p->stage = stage;
+  p->heatmap = fw_plot_kind_is_heatmap (self->kind);
+  p->signed_values = signed_values;
+  task = g_task_new (self, self->cancellable, on_prepared, data);
+  g_task_set_source_tag (task, fw_plot_row_set_data);
+  g_task_set_task_data (task, p, (GDestroyNotify) prepared_free);
+  g_task_run_in_thread (task, prepare_thread);
+  g_object_unref (task);
+  emit_state (self);
+}
+
+const char *
+fw_plot_row_get_title (FwPlotRow *self)
+{
+  g_return_val_if_fail (FW_IS_PLOT_ROW (self), NULL);
+  return row_title (self);
+}
+
+void
 fw_plot_row_cancel (FwPlotRow *self)
 {
   g_return_if_fail (FW_IS_PLOT_ROW (self));
@@ -736,16 +875,19 @@ update_accessible (FwPlotRow *self)
   const char *clip = self->clip != NULL ? fw_clip_get_display_name (self->clip) : _("no clip");
   const char *set = self->set != NULL ? fw_param_set_get_name (self->set) : _("no set");
 
-  /* TRANSLATORS: accessible name of a plot row: row title, clip, parameter set */
-  label = g_strdup_printf (_("%s of %s with parameter set %s"), fw_plot_kind_title (self->kind),
-                           clip, set);
+  if (self->external)
+    label = g_strdup (row_title (self));
+  else
+    /* TRANSLATORS: accessible name of a plot row: row title, clip, parameter set */
+    label = g_strdup_printf (_("%s of %s with parameter set %s"), fw_plot_kind_title (self->kind),
+                             clip, set);
   if (self->message != NULL)
     description = g_strdup (self->message);
   else if (self->busy)
     description = g_strdup (_("Computing…"));
-  else if (self->matrix != NULL && self->params != NULL)
+  else if (self->matrix != NULL && (self->params != NULL || self->external))
     {
-      g_autofree char *quantity = fw_feature_quantity_label (row_stage (self), self->params);
+      g_autofree char *quantity = row_quantity (self);
       description = g_strdup_printf (_("%zu frames × %zu bins over %.2f s; values: %s"),
                                      self->matrix->n_frames, self->matrix->n_bins,
                                      fw_plot_row_get_duration (self), quantity);
@@ -842,13 +984,14 @@ fw_plot_row_describe_point (FwPlotRow *self, double x, double y)
                                   v != 0 ? 20 * log10 (fabs (v)) : -INFINITY);
         }
     }
-  else if (self->matrix != NULL && self->matrix->n_frames > 0 && self->params != NULL)
+  else if (self->matrix != NULL && self->matrix->n_frames > 0 &&
+           (self->params != NULL || self->external))
     {
       const FwMatrix *m = self->matrix;
       gsize frame = nearest_frame (m, t);
       gsize bin = 0;
-      g_autofree char *quantity = fw_feature_quantity_label (row_stage (self), self->params);
-      const char *unit = fw_feature_value_unit (row_stage (self), self->params);
+      g_autofree char *quantity = row_quantity (self);
+      const char *unit = row_unit (self);
       float v;
 
       g_string_append_printf (s, _(" (frame %zu at %.4f s)"), frame, m->frame_times[frame]);
@@ -1123,8 +1266,10 @@ fw_plot_row_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   info.trace_range = self->trace_range;
   if (self->matrix != NULL && fw_plot_kind_is_heatmap (self->kind))
     heatmap_spec (self, &info.heatmap, t0, t1);
-  title = g_strdup (fw_plot_kind_title (self->kind));
+  title = g_strdup (row_title (self));
   info.title = title;
+  info.quantity = self->quantity;
+  info.zero_line = self->signed_values;
   fw_plot_draw_row (cr, &theme, &info);
   cairo_destroy (cr);
 
@@ -1163,7 +1308,7 @@ fw_plot_row_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
     draw_message (snapshot, widget, &area, _("Computing…"), FALSE);
   else if (!have_data && self->message != NULL)
     draw_message (snapshot, widget, &area, self->message, TRUE);
-  else if (!have_data && self->clip == NULL)
+  else if (!have_data && self->clip == NULL && !self->external)
     draw_message (snapshot, widget, &area, _("Select a clip in the sidebar."), FALSE);
   else if (have_data && self->message != NULL)
     draw_message (snapshot, widget, &GRAPHENE_RECT_INIT (area.origin.x, 0, area.size.width,
@@ -1439,8 +1584,7 @@ on_menu_activate (GtkMenuButton *button, gpointer user_data)
   FwPlotRow *self = user_data;
   GtkWidget *popover = gtk_popover_new ();
   GtkWidget *box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 8);
-  GtkWidget *heading = gtk_label_new (fw_plot_kind_title (self->kind));
-  GtkWidget *recompute = gtk_button_new_with_mnemonic (_("_Recompute"));
+  GtkWidget *heading = gtk_label_new (row_title (self));
   FwValueRange shown = { 0, 1 };
 
   self->popover_box = box;
@@ -1519,8 +1663,12 @@ on_menu_activate (GtkMenuButton *button, gpointer user_data)
       g_signal_connect (dropdown, "notify::selected", G_CALLBACK (on_axis_selected), self);
       gtk_box_append (GTK_BOX (box), labelled (_("_Frequency axis"), dropdown));
     }
-  g_signal_connect (recompute, "clicked", G_CALLBACK (on_recompute_clicked), self);
-  gtk_box_append (GTK_BOX (box), recompute);
+  if (!self->external)
+    {
+      GtkWidget *recompute = gtk_button_new_with_mnemonic (_("_Recompute"));
+      g_signal_connect (recompute, "clicked", G_CALLBACK (on_recompute_clicked), self);
+      gtk_box_append (GTK_BOX (box), recompute);
+    }
   gtk_popover_set_child (GTK_POPOVER (popover), box);
   gtk_menu_button_set_popover (button, popover);
 }
@@ -1562,6 +1710,9 @@ fw_plot_row_finalize (GObject *object)
   FwPlotRow *self = FW_PLOT_ROW (object);
 
   g_free (self->message);
+  g_free (self->title);
+  g_free (self->quantity);
+  g_free (self->unit);
   G_OBJECT_CLASS (fw_plot_row_parent_class)->finalize (object);
 }
 

@@ -77,6 +77,19 @@ gboolean fw_plot_row_is_busy (FwPlotRow *self);
 /* Message shown instead of data (file missing, bad parameters, cancelled), or NULL. */
 const char *fw_plot_row_get_message (FwPlotRow *self);
 void fw_plot_row_reload (FwPlotRow *self);
+
+/* Shows a matrix the caller computed (the compare view) instead of a clip's stage: the row
+ * leaves the cache for good and draws `matrix` (NULL: nothing) as a heatmap or a curve after
+ * its kind. stage says what the values are (colour scale, range rule, bin axis labels);
+ * params (may be NULL) feed the quantity label unless `quantity` is given; title replaces
+ * the kind's title; unit (may be NULL) is the readout's unit. signed_values: the values are
+ * differences (diverging scale, range symmetric about zero, mean per pixel; curves keep zero
+ * in view and draw a zero line). */
+void fw_plot_row_set_data (FwPlotRow *self, FwMatrix *matrix, FwParams *params, FwStage stage,
+                           const char *title, const char *quantity, const char *unit,
+                           gboolean signed_values);
+/* The title shown above the data. */
+const char *fw_plot_row_get_title (FwPlotRow *self);
 void fw_plot_row_cancel (FwPlotRow *self);
 
 /* Appearance. */

@@ -588,6 +588,94 @@ action_pin_clip (GSimpleAction *action, GVariant *param, gpointer user_data)
     _fw_window_pin (self, clip, NULL);
 }
 
+/* ---------------------------------------------------------------- comparisons */
+
+/* Another set than `set` for B: the pinned one when there is one, else the next in the list. */
+static FwParamSet *
+other_set (FwWindow *self, FwParamSet *set)
+{
+  GListModel *sets = fw_project_get_param_sets (self->project);
+  guint n = g_list_model_get_n_items (sets);
+  guint pos = 0;
+
+  if (self->pinned_set != NULL && self->pinned_set != set)
+    return self->pinned_set;
+  if (n < 2)
+    return set;
+  if (set != NULL && g_list_store_find (G_LIST_STORE (sets), set, &pos))
+    {
+      g_autoptr (FwParamSet) next = g_list_model_get_item (sets, (pos + 1) % n);
+      return next;   /* the project holds it */
+    }
+  {
+    g_autoptr (FwParamSet) first = g_list_model_get_item (sets, 0);
+    return first;
+  }
+}
+
+static void
+action_compare_new (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  FwWindow *self = user_data;
+
+  /* A is what the plots show; B the same clip under another set, or the pinned clip */
+  if (self->pinned_clip != NULL)
+    _fw_window_ask_comparison (self, self->clip, self->set, self->pinned_clip, self->set);
+  else
+    _fw_window_ask_comparison (self, self->clip, self->set, self->clip,
+                               other_set (self, self->set));
+}
+
+static void
+action_compare_with (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  FwWindow *self = user_data;
+  FwClip *clip = _fw_window_find_clip (self, g_variant_get_string (param, NULL));
+
+  if (clip == NULL)
+    return;
+  /* A is the clip whose menu was used; B the clip shown in the plots when that is another
+   * one (two clips, one set), else the same clip under another set */
+  if (self->clip != NULL && self->clip != clip)
+    _fw_window_ask_comparison (self, clip, self->set, self->clip, self->set);
+  else
+    _fw_window_ask_comparison (self, clip, self->set, clip, other_set (self, self->set));
+}
+
+static void
+action_open_comparison (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  FwWindow *self = user_data;
+  GListModel *cmps = fw_project_get_comparisons (self->project);
+  guint i = g_variant_get_uint32 (param);
+
+  if (i < g_list_model_get_n_items (cmps))
+    {
+      g_autoptr (FwComparison) cmp = g_list_model_get_item (cmps, i);
+      _fw_window_open_comparison (self, cmp);
+    }
+}
+
+static void
+action_remove_comparison (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  FwWindow *self = user_data;
+  GListModel *cmps = fw_project_get_comparisons (self->project);
+  guint i = g_variant_get_uint32 (param);
+
+  if (i < g_list_model_get_n_items (cmps))
+    {
+      g_autoptr (FwComparison) cmp = g_list_model_get_item (cmps, i);
+      fw_project_remove_comparison (self->project, cmp);
+    }
+}
+
+static void
+action_close_compare (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  _fw_window_close_compare (user_data);
+}
+
 /* ---------------------------------------------------------------- setup */
 
 static const GActionEntry win_actions[] = {
@@ -623,6 +711,11 @@ static const GActionEntry win_actions[] = {
   { "relink-clip", action_relink_clip, "s" },
   { "remove-clip", action_remove_clip, "s" },
   { "pin-clip", action_pin_clip, "s" },
+  { "compare-new", action_compare_new },
+  { "compare-with", action_compare_with, "s" },
+  { "open-comparison", action_open_comparison, "u" },
+  { "remove-comparison", action_remove_comparison, "u" },
+  { "close-compare", action_close_compare },
 };
 
 static void
@@ -650,6 +743,8 @@ _fw_window_update_action_states (FwWindow *self)
   set_enabled (self, "pin-selected-set", have_set);
   set_enabled (self, "unpin", self->pinned_clip != NULL || self->pinned_set != NULL);
   set_enabled (self, "export-figure", have_set && self->clip != NULL);
+  set_enabled (self, "compare-new", have_set && self->clip != NULL);
+  set_enabled (self, "close-compare", _fw_window_compare_shown (self));
 }
 
 void

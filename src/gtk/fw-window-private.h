@@ -5,6 +5,7 @@
 #include "fw-window.h"
 
 #include "fw-clip-list.h"
+#include "fw-compare-view.h"
 #include "fw-feature-cache.h"
 #include "fw-params-editor.h"
 #include "fw-plot-stack.h"
@@ -27,6 +28,9 @@ struct _FwWindow {
   GtkWidget *sidebar;
   FwClipList *clip_list;
   GtkListBox *set_list;
+  GtkListBox *comparison_list;
+  GtkStack *main_stack;
+  FwCompareView *compare_view;
   GtkMenuButton *rows_button;
   GtkPopover *rows_popover;
   GtkBox *rows_box;
@@ -53,6 +57,7 @@ struct _FwWindow {
   gulong project_dirty_id;
   gulong cache_progress_id;
   gboolean updating_sets;
+  gboolean updating_comparisons;
   gboolean close_confirmed;
   guint duration_idle;
   guint adding_clips;      /* files being checked before they join the project */
@@ -77,7 +82,18 @@ void _fw_window_ask_text (FwWindow *self, const char *title, const char *prompt,
                           void (*done) (FwWindow *self, const char *text, gpointer data),
                           gpointer data, GDestroyNotify destroy);
 
+/* Comparisons (fw-window.c): the compare view in place of the plots. */
+void _fw_window_open_comparison (FwWindow *self, FwComparison *cmp);
+/* Adds a new comparison to the project and opens it. */
+void _fw_window_start_comparison (FwWindow *self, FwComparison *cmp);
+void _fw_window_close_compare (FwWindow *self);
+gboolean _fw_window_compare_shown (FwWindow *self);
+/* The compare dialog with A and B preset (any may be NULL). */
+void _fw_window_ask_comparison (FwWindow *self, FwClip *a_clip, FwParamSet *a_set,
+                                FwClip *b_clip, FwParamSet *b_set);
+
 /* For tests: the parts of the window. */
+FwCompareView *_fw_window_get_compare_view (FwWindow *self);
 FwPlotStack *_fw_window_get_plot_stack (FwWindow *self);
 FwParamsEditor *_fw_window_get_params_editor (FwWindow *self);
 FwSpectrumPanel *_fw_window_get_spectrum_panel (FwWindow *self);

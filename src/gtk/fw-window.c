@@ -8,6 +8,8 @@
 
 #include <glib/gi18n.h>
 
+#include "fw-compare-dialog.h"
+#include "fw-feature.h"
 #include "fw-recent.h"
 
 G_DEFINE_FINAL_TYPE (FwWindow, fw_window, GTK_TYPE_APPLICATION_WINDOW)
@@ -189,6 +191,328 @@ on_set_selected (GtkListBox *list, GtkListBoxRow *row, FwWindow *self)
   _fw_window_select (self, self->clip, set);
 }
 
+/* ---------------------------------------------------------------- comparisons */
+
+static FwComparison *
+row_comparison (GtkListBoxRow *row)
+{
+  return row != NULL ? g_object_get_data (G_OBJECT (row), "fw-comparison") : NULL;
+}
+
+static void
+select_comparison_row (FwWindow *self)
+{
+  FwComparison *shown = _fw_window_compare_shown (self)
+                          ? fw_compare_view_get_comparison (self->compare_view) : NULL;
+
+  self->updating_comparisons = TRUE;
+  gtk_list_box_unselect_all (self->comparison_list);
+  for (GtkWidget *child = gtk_widget_get_first_child (GTK_WIDGET (self->comparison_list));
+       child != NULL; child = gtk_widget_get_next_sibling (child))
+    if (shown != NULL && row_comparison (GTK_LIST_BOX_ROW (child)) == shown)
+      gtk_list_box_select_row (self->comparison_list, GTK_LIST_BOX_ROW (child));
+  self->updating_comparisons = FALSE;
+}
+
+static void
+rebuild_comparison_list (FwWindow *self)
+{
+  GtkWidget *child;
+  GListModel *cmps;
+  guint n;
+
+  self->updating_comparisons = TRUE;
+  while ((child = gtk_widget_get_first_child (GTK_WIDGET (self->comparison_list))) != NULL)
+    gtk_list_box_remove (self->comparison_list, child);
+  self->updating_comparisons = FALSE;
+  if (self->project == NULL)
+    return;
+  cmps = fw_project_get_comparisons (self->project);
+  n = g_list_model_get_n_items (cmps);
+  for (guint i = 0; i < n; i++)
+    {
+      g_autoptr (FwComparison) cmp = g_list_model_get_item (cmps, i);
+      GtkWidget *row = gtk_list_box_row_new ();
+      GtkWidget *hbox = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 4);
+      GtkWidget *box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+      GtkWidget *name = gtk_label_new (fw_comparison_get_name (cmp));
+      GtkWidget *remove = gtk_button_new_from_icon_name ("user-trash-symbolic");
+      FwStage stage = FW_STAGE_DB;
+      const char *stage_title;
+      GtkWidget *detail;
+      g_autofree char *tip = NULL;
+
+      if (fw_stage_from_name (fw_comparison_get_stage (cmp), &stage))
+        stage_title = fw_compare_view_stage_title (stage);
+      else
+        stage_title = fw_comparison_get_stage (cmp);
+      detail = gtk_label_new (stage_title);
+      gtk_label_set_xalign (GTK_LABEL (name), 0);
+      gtk_label_set_ellipsize (GTK_LABEL (name), PANGO_ELLIPSIZE_END);
+      gtk_label_set_xalign (GTK_LABEL (detail), 0);
+      gtk_label_set_ellipsize (GTK_LABEL (detail), PANGO_ELLIPSIZE_END);
+      gtk_widget_add_css_class (detail, "caption");
+      gtk_widget_add_css_class (detail, "dim-label");
+      gtk_widget_set_hexpand (box, TRUE);
+      gtk_box_append (GTK_BOX (box), name);
+      gtk_box_append (GTK_BOX (box), detail);
+      gtk_widget_add_css_class (remove, "flat");
+      gtk_widget_set_valign (remove, GTK_ALIGN_CENTER);
+      tip = g_strdup_printf (_("Remove the comparison “%s” from the project"),
+                             fw_comparison_get_name (cmp));
+      gtk_widget_set_tooltip_text (remove, tip);
+      gtk_accessible_update_property (GTK_ACCESSIBLE (remove), GTK_ACCESSIBLE_PROPERTY_LABEL,
+                                      tip, -1);
+      gtk_actionable_set_action_name (GTK_ACTIONABLE (remove), "win.remove-comparison");
+      gtk_actionable_set_action_target (GTK_ACTIONABLE (remove), "u", i);
+      gtk_box_append (GTK_BOX (hbox), box);
+      gtk_box_append (GTK_BOX (hbox), remove);
+      gtk_widget_add_css_class (hbox, "fw-set-row");
+      gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), hbox);
+      gtk_widget_set_tooltip_text (row, fw_comparison_get_name (cmp));
+      g_object_set_data_full (G_OBJECT (row), "fw-comparison", g_object_ref (cmp),
+                              g_object_unref);
+      gtk_list_box_append (self->comparison_list, row);
+    }
+  if (n == 0)
+    {
+      GtkWidget *row = gtk_list_box_row_new ();
+      GtkWidget *hint = gtk_label_new (_("None yet: use “Compare With…” in a clip's or set's "
+                                         "menu, or the + button."));
+      gtk_label_set_wrap (GTK_LABEL (hint), TRUE);
+      gtk_label_set_xalign (GTK_LABEL (hint), 0);
+      gtk_widget_add_css_class (hint, "dim-label");
+      gtk_widget_add_css_class (hint, "caption");
+      gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), hint);
+      gtk_list_box_row_set_activatable (GTK_LIST_BOX_ROW (row), FALSE);
+      gtk_list_box_row_set_selectable (GTK_LIST_BOX_ROW (row), FALSE);
+      gtk_list_box_append (self->comparison_list, row);
+    }
+  select_comparison_row (self);
+}
+
+static void
+on_comparison_activated (GtkListBox *list, GtkListBoxRow *row, FwWindow *self)
+{
+  FwComparison *cmp = row_comparison (row);
+
+  if (!self->updating_comparisons && cmp != NULL)
+    _fw_window_open_comparison (self, cmp);
+}
+
+gboolean
+_fw_window_compare_shown (FwWindow *self)
+{
+  return g_strcmp0 (gtk_stack_get_visible_child_name (self->main_stack), "compare") == 0;
+}
+
+static void
+update_duration (FwWindow *self)
+{
+  double duration = _fw_window_compare_shown (self)
+                      ? fw_compare_view_get_duration (self->compare_view)
+                      : fw_plot_stack_get_duration (self->plot_stack);
+
+  if (duration > 0 && duration != fw_viewport_get_duration (self->viewport))
+    fw_viewport_set_duration (self->viewport, duration);
+}
+
+void
+_fw_window_open_comparison (FwWindow *self, FwComparison *cmp)
+{
+  g_return_if_fail (FW_IS_COMPARISON (cmp));
+  fw_compare_view_set_comparison (self->compare_view, cmp);
+  gtk_stack_set_visible_child_name (self->main_stack, "compare");
+  update_duration (self);
+  fw_viewport_fit (self->viewport);
+  select_comparison_row (self);
+  _fw_window_update_action_states (self);
+}
+
+void
+_fw_window_start_comparison (FwWindow *self, FwComparison *cmp)
+{
+  g_return_if_fail (FW_IS_COMPARISON (cmp));
+  fw_project_add_comparison (self->project, cmp);
+  _fw_window_open_comparison (self, cmp);
+}
+
+void
+_fw_window_close_compare (FwWindow *self)
+{
+  if (!_fw_window_compare_shown (self))
+    return;
+  fw_compare_view_cancel (self->compare_view);
+  gtk_stack_set_visible_child_name (self->main_stack, "plots");
+  update_duration (self);
+  select_comparison_row (self);
+  _fw_window_update_action_states (self);
+}
+
+static void
+on_compare_state_changed (FwCompareView *view, FwWindow *self)
+{
+  if (_fw_window_compare_shown (self))
+    update_duration (self);
+}
+
+static void
+on_compare_set_added (FwCompareView *view, FwParamSet *set, FwWindow *self)
+{
+  /* the plots behind the compare view show the new set, ready for "Plots" */
+  _fw_window_select (self, self->clip, set);
+}
+
+static void
+on_dialog_compare (FwCompareDialog *dialog, FwComparison *cmp, FwWindow *self)
+{
+  _fw_window_start_comparison (self, cmp);
+}
+
+void
+_fw_window_ask_comparison (FwWindow *self, FwClip *a_clip, FwParamSet *a_set, FwClip *b_clip,
+                           FwParamSet *b_set)
+{
+  FwCompareDialog *dialog;
+  FwStage stage = _fw_window_compare_shown (self)
+                    ? fw_compare_view_get_stage (self->compare_view) : FW_STAGE_DB;
+
+  if (self->project == NULL)
+    return;
+  dialog = fw_compare_dialog_new (GTK_WINDOW (self), self->project, a_clip, a_set, b_clip,
+                                  b_set, stage);
+  g_signal_connect_object (dialog, "compare", G_CALLBACK (on_dialog_compare), self, 0);
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
+/* "CLIP@SET" or a feature file path. */
+static gboolean
+parse_side (FwWindow *self, const char *spec, const char *side, FwOperandKind *kind,
+            char **clip_path, char **set_name, GError **error)
+{
+  const char *at = strrchr (spec, '@');
+
+  if (at == NULL)
+    {
+      if (!g_file_test (spec, G_FILE_TEST_IS_REGULAR))
+        {
+          g_set_error (error, G_IO_ERROR, G_IO_ERROR_INVALID_ARGUMENT,
+                       _("Side %s “%s”: give CLIP@SET (a clip and a parameter set of the "
+                         "project) or an existing feature file (.npy, .csv)"), side, spec);
+          return FALSE;
+        }
+      *kind = FW_OPERAND_FILE;
+      *clip_path = g_canonicalize_filename (spec, NULL);
+      *set_name = g_strdup ("");
+      return TRUE;
+    }
+  {
+    g_autofree char *clip_part = g_strndup (spec, (gsize) (at - spec));
+    FwClip *clip = fw_project_find_clip (self->project, clip_part);
+    FwParamSet *set = fw_project_find_param_set (self->project, at + 1);
+
+    if (clip == NULL)
+      {
+        g_set_error (error, G_IO_ERROR, G_IO_ERROR_NOT_FOUND,
+                     _("Side %s: the project has no clip “%s”"), side, clip_part);
+        return FALSE;
+      }
+    if (set == NULL)
+      {
+        g_set_error (error, G_IO_ERROR, G_IO_ERROR_NOT_FOUND,
+                     _("Side %s: the project has no parameter set “%s”"), side, at + 1);
+        return FALSE;
+      }
+    *kind = FW_OPERAND_CLIP;
+    *clip_path = g_strdup (fw_clip_get_path (clip));
+    *set_name = g_strdup (fw_param_set_get_name (set));
+  }
+  return TRUE;
+}
+
+gboolean
+fw_window_compare (FwWindow *self, const char *a, const char *b, const char *stage,
+                   GError **error)
+{
+  FwOperandKind kind[2];
+  g_autofree char *clip[2] = { NULL, NULL };
+  g_autofree char *set[2] = { NULL, NULL };
+  const char *specs[2] = { a, b };
+  FwStage parsed = FW_STAGE_DB;
+  g_autoptr (FwComparison) draft = NULL;
+  g_autoptr (FwComparison) cmp = NULL;
+  g_autofree char *name = NULL;
+  g_autofree char *clip_b = NULL;
+
+  g_return_val_if_fail (FW_IS_WINDOW (self), FALSE);
+  g_return_val_if_fail (a != NULL && b != NULL, FALSE);
+  if (self->project == NULL)
+    return FALSE;
+  if (stage != NULL && !fw_feature_parse_stage (stage, &parsed, error))
+    return FALSE;
+  for (guint s = 0; s < 2; s++)
+    {
+      char *c = NULL, *st = NULL;
+      if (!parse_side (self, specs[s], s == 0 ? "A" : "B", &kind[s], &c, &st, error))
+        return FALSE;
+      clip[s] = c;
+      set[s] = st;
+    }
+  for (guint pass = 0; pass < 2; pass++)
+    {
+      FwComparison *c = fw_comparison_new (pass == 0 ? "" : name, fw_stage_name (parsed));
+      for (guint s = 0; s < 2; s++)
+        fw_comparison_set_operand (c, s, kind[s], clip[s], set[s], "");
+      if (pass == 0)
+        {
+          draft = c;
+          name = fw_compare_view_name_for (draft);
+        }
+      else
+        cmp = c;
+    }
+  _fw_window_start_comparison (self, cmp);
+  return TRUE;
+}
+
+gboolean
+fw_window_open_comparison_by_name (FwWindow *self, const char *name, GError **error)
+{
+  GListModel *cmps;
+  guint n;
+  char *end = NULL;
+  guint64 number;
+
+  g_return_val_if_fail (FW_IS_WINDOW (self), FALSE);
+  if (self->project == NULL)
+    return FALSE;
+  cmps = fw_project_get_comparisons (self->project);
+  n = g_list_model_get_n_items (cmps);
+  for (guint i = 0; i < n; i++)
+    {
+      g_autoptr (FwComparison) cmp = g_list_model_get_item (cmps, i);
+      if (g_strcmp0 (fw_comparison_get_name (cmp), name) == 0)
+        {
+          _fw_window_open_comparison (self, cmp);
+          return TRUE;
+        }
+    }
+  number = g_ascii_strtoull (name, &end, 10);
+  if (end != name && *end == '\0' && number >= 1 && number <= n)
+    {
+      g_autoptr (FwComparison) cmp = g_list_model_get_item (cmps, (guint) number - 1);
+      _fw_window_open_comparison (self, cmp);
+      return TRUE;
+    }
+  g_set_error (error, G_IO_ERROR, G_IO_ERROR_NOT_FOUND,
+               g_dngettext (GETTEXT_PACKAGE,
+                            "The project has no comparison “%s” (it has %u saved comparison)",
+                            "The project has no comparison “%s” (it has %u saved comparisons)",
+                            n),
+               name, n);
+  return FALSE;
+}
+
 /* ---------------------------------------------------------------- selection */
 
 static void
@@ -351,6 +675,14 @@ on_project_changed (FwProject *project, FwWindow *self)
     g_clear_object (&self->pinned_set);
 
   rebuild_set_list (self);
+  rebuild_comparison_list (self);
+  if (_fw_window_compare_shown (self))
+    {
+      FwComparison *shown = fw_compare_view_get_comparison (self->compare_view);
+      if (shown == NULL ||
+          !g_list_store_find (G_LIST_STORE (fw_project_get_comparisons (project)), shown, &pos))
+        _fw_window_close_compare (self);
+    }
   if (clip != self->clip || set != self->set)
     _fw_window_select (self, clip, set);
   else
@@ -386,6 +718,8 @@ set_cache (FwWindow *self, FwFeatureCache *cache)
   fw_spectrum_panel_set_context (self->spectrum_panel, cache, self->viewport);
 }
 
+FwCompareView *_fw_window_get_compare_view (FwWindow *self) { return self->compare_view; }
+
 void
 fw_window_set_project (FwWindow *self, FwProject *project)
 {
@@ -403,6 +737,8 @@ fw_window_set_project (FwWindow *self, FwProject *project)
     }
   /* Work for the old document is of no use any more. */
   fw_plot_stack_cancel (self->plot_stack);
+  gtk_stack_set_visible_child_name (self->main_stack, "plots");
+  fw_compare_view_set_context (self->compare_view, project, self->viewport);
   fw_plot_stack_set_column (self->plot_stack, 1, NULL, NULL);
   fw_plot_stack_set_column (self->plot_stack, 0, NULL, NULL);
   fw_spectrum_panel_set_source (self->spectrum_panel, NULL, NULL);
@@ -427,6 +763,7 @@ fw_window_set_project (FwWindow *self, FwProject *project)
   fw_clip_list_set_project (self->clip_list, project);
   self->set = first_set != NULL ? g_object_ref (first_set) : NULL;
   rebuild_set_list (self);
+  rebuild_comparison_list (self);
   fw_viewport_clear_selection (self->viewport);
   fw_viewport_set_cursor (self->viewport, -1);
   _fw_window_select (self, first_clip, first_set);
@@ -881,10 +1218,8 @@ on_cache_progress (FwFeatureCache *cache, guint pending, double fraction, FwWind
 static void
 on_stack_state_changed (FwPlotStack *stack, FwWindow *self)
 {
-  double duration = fw_plot_stack_get_duration (stack);
-
-  if (duration > 0 && duration != fw_viewport_get_duration (self->viewport))
-    fw_viewport_set_duration (self->viewport, duration);
+  if (!_fw_window_compare_shown (self))
+    update_duration (self);
   if (self->cache != NULL)
     on_cache_progress (self->cache, fw_feature_cache_get_pending (self->cache), 0, self);
 }
@@ -1068,7 +1403,8 @@ fw_window_is_settled (FwWindow *self)
          (self->cache == NULL || fw_feature_cache_get_pending (self->cache) == 0) &&
          !fw_plot_stack_is_busy (self->plot_stack) &&
          !fw_spectrum_panel_is_busy (self->spectrum_panel) &&
-         !fw_params_editor_is_busy (self->params_editor);
+         !fw_params_editor_is_busy (self->params_editor) &&
+         !fw_compare_view_is_busy (self->compare_view);
 }
 
 GdkTexture *
@@ -1332,6 +1668,7 @@ fw_window_class_init (FwWindowClass *klass)
   g_type_ensure (FW_TYPE_PLOT_STACK);
   g_type_ensure (FW_TYPE_SPECTRUM_PANEL);
   g_type_ensure (FW_TYPE_PARAMS_EDITOR);
+  g_type_ensure (FW_TYPE_COMPARE_VIEW);
 
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/framewise/Workbench/fw-window.ui");
@@ -1345,6 +1682,9 @@ fw_window_class_init (FwWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, FwWindow, sidebar);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, clip_list);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, set_list);
+  gtk_widget_class_bind_template_child (widget_class, FwWindow, comparison_list);
+  gtk_widget_class_bind_template_child (widget_class, FwWindow, main_stack);
+  gtk_widget_class_bind_template_child (widget_class, FwWindow, compare_view);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, rows_button);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, rows_popover);
   gtk_widget_class_bind_template_child (widget_class, FwWindow, rows_box);
@@ -1373,7 +1713,13 @@ fw_window_init (FwWindow *self)
   self->viewport = fw_viewport_new ();
   fw_plot_stack_set_context (self->plot_stack, NULL, self->viewport);
   fw_spectrum_panel_set_context (self->spectrum_panel, NULL, self->viewport);
+  fw_compare_view_set_context (self->compare_view, NULL, self->viewport);
 
+  g_signal_connect (self->comparison_list, "row-activated", G_CALLBACK (on_comparison_activated),
+                    self);
+  g_signal_connect (self->compare_view, "state-changed", G_CALLBACK (on_compare_state_changed),
+                    self);
+  g_signal_connect (self->compare_view, "set-added", G_CALLBACK (on_compare_set_added), self);
   g_signal_connect (self->banner_close, "clicked", G_CALLBACK (on_banner_close), self);
   g_signal_connect (self->clip_list, "notify::selected-clip", G_CALLBACK (on_clip_selected), self);
   g_signal_connect (self->clip_list, "files-dropped", G_CALLBACK (on_files_dropped), self);

@@ -29,6 +29,15 @@ void fw_window_add_clip_files (FwWindow *self, GFile **files, guint n_files);
 /* TRUE when `file` looks like a project rather than audio. */
 gboolean fw_window_file_is_project (GFile *file);
 
+/* Opens the compare view on a new comparison, saved in the project. A side is "CLIP@SET" (a
+ * clip of the project by path or file name, a parameter set by name) or the path of a feature
+ * file (.npy or .csv, taken to be on the other side's frame grid). stage: a stage name
+ * ("db", "mel-db", "mfcc", ...; NULL for "db"). Errors name the side and the cause. */
+gboolean fw_window_compare (FwWindow *self, const char *a, const char *b, const char *stage,
+                            GError **error);
+/* Opens a saved comparison by its name or its 1-based number in the project. */
+gboolean fw_window_open_comparison_by_name (FwWindow *self, const char *name, GError **error);
+
 /* Saves to the project's path (or `path` when not NULL). Errors are shown in the window. */
 gboolean fw_window_save (FwWindow *self, const char *path);
 

@@ -261,7 +261,7 @@ decode (const char *path, int channel, gboolean want_samples, FwAudioInfo *info,
   if (sf_error (sf) != SF_ERR_NO_ERROR)
     {
       g_set_error (error, FW_AUDIO_ERROR, FW_AUDIO_ERROR_UNREADABLE,
-                   _("%s: read error after %" G_GSIZE_FORMAT " frames: %s"), display, n,
+                   _("%s: read error after %zu frames: %s"), display, n,
                    sf_strerror (sf));
       g_free (mono);
       sf_close (sf);
@@ -291,16 +291,16 @@ decode (const char *path, int channel, gboolean want_samples, FwAudioInfo *info,
           if (where->len > 0)
             g_string_append (where, ", ");
           if (sfi.channels > 1)
-            g_string_append_printf (where, _("sample %" G_GINT64_FORMAT " (%s s) of channel %d"),
-                                    bad_frame[i], secs, bad_channel[i]);
+            g_string_append_printf (where, _("sample %lld (%s s) of channel %d"),
+                                    (long long) bad_frame[i], secs, bad_channel[i]);
           else
-            g_string_append_printf (where, _("sample %" G_GINT64_FORMAT " (%s s)"),
-                                    bad_frame[i], secs);
+            g_string_append_printf (where, _("sample %lld (%s s)"),
+                                    (long long) bad_frame[i], secs);
         }
       g_set_error (error, FW_AUDIO_ERROR, FW_AUDIO_ERROR_NON_FINITE,
-                   ngettext ("%s: %" G_GSIZE_FORMAT " sample is not a finite number (NaN or "
+                   ngettext ("%s: %zu sample is not a finite number (NaN or "
                              "infinity), at %s",
-                             "%s: %" G_GSIZE_FORMAT " samples are not finite numbers (NaN or "
+                             "%s: %zu samples are not finite numbers (NaN or "
                              "infinity), first at %s",
                              n_bad),
                    display, n_bad, where->str);

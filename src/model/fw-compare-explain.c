@@ -760,7 +760,7 @@ shape_adapted_base (Search *s, FwParams *base, GPtrArray *notes)
     {
       /* looks transposed: adapting keys to it would only mislead */
       s->looks_transposed = TRUE;
-      g_ptr_array_add (notes, g_strdup_printf (_("The dump has %" G_GSIZE_FORMAT " frames, the "
+      g_ptr_array_add (notes, g_strdup_printf (_("The dump has %zu frames, the "
                                                  "number of bins expected here: is its axis "
                                                  "order the other way round? Then declare it "
                                                  "(frames-bins or bins-frames)."),
@@ -775,8 +775,8 @@ shape_adapted_base (Search *s, FwParams *base, GPtrArray *notes)
   p = fw_params_with_settings (base, (const char *const *) settings->pdata, NULL);
   if (p == NULL)
     return fw_params_ref (base);
-  g_ptr_array_add (notes, g_strdup_printf (_("The dump has %" G_GSIZE_FORMAT " columns where the "
-                                             "base set gives %" G_GSIZE_FORMAT ": searched with "
+  g_ptr_array_add (notes, g_strdup_printf (_("The dump has %zu columns where the "
+                                             "base set gives %zu: searched with "
                                              "%s=%s."),
                                            want, have, key, value));
   return p;
@@ -819,8 +819,8 @@ add_hop_guess (Search *s, GPtrArray *notes)
           g_autofree char *v2 = g_strdup_printf ("%" G_GSIZE_FORMAT, p2);
           dim_add (s->dims, s->base, "hop_length", v2, NULL);
         }
-      g_ptr_array_add (notes, g_strdup_printf (_("The dump has %" G_GSIZE_FORMAT " frames where "
-                                                 "the base set gives %" G_GSIZE_FORMAT ": also "
+      g_ptr_array_add (notes, g_strdup_printf (_("The dump has %zu frames where "
+                                                 "the base set gives %zu: also "
                                                  "tried hop_length near %s."),
                                                s->dump->n_frames, frames, value));
     }

@@ -361,16 +361,16 @@ bin_words (const FwMatrix *m, gsize k)
   if (m->bin_kind == FW_BIN_AXIS_HZ)
     {
       g_autofree char *hz = fmt_hz (m->bin_value[k]);
-      return g_strdup_printf (_("bin %" G_GSIZE_FORMAT " (%s)"), k, hz);
+      return g_strdup_printf (_("bin %zu (%s)"), k, hz);
     }
   if (m->bin_kind == FW_BIN_AXIS_MEL_BAND)
     {
       g_autofree char *hz = fmt_hz (m->bin_value[k]);
-      return g_strdup_printf (_("band %" G_GSIZE_FORMAT " (%s)"), k, hz);
+      return g_strdup_printf (_("band %zu (%s)"), k, hz);
     }
   if (m->bin_kind == FW_BIN_AXIS_COEFFICIENT)
-    return g_strdup_printf (_("coefficient %" G_GSIZE_FORMAT), k);
-  return g_strdup_printf (_("column %" G_GSIZE_FORMAT), k);
+    return g_strdup_printf (_("coefficient %zu"), k);
+  return g_strdup_printf (_("column %zu"), k);
 }
 
 static const char *
@@ -401,8 +401,7 @@ build_summary (const FwCompareResult *r)
 
   if (e->identical)
     {
-      char *s = g_strdup_printf (_("B = A exactly (all %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT
-                                   " compared values are equal)"),
+      char *s = g_strdup_printf (_("B = A exactly (all %zu x %zu compared values are equal)"),
                                  d->n_frames, d->n_bins);
       g_ptr_array_unref (parts);
       return s;
@@ -529,9 +528,8 @@ add_alignment_notes (FwCompareResult *r)
 
   if (al->a_frames != al->b_frames || al->a_bins != al->b_bins)
     g_ptr_array_add (r->notes,
-                     g_strdup_printf (_("The shapes differ: A is %" G_GSIZE_FORMAT " x %"
-                                        G_GSIZE_FORMAT ", B is %" G_GSIZE_FORMAT " x %"
-                                        G_GSIZE_FORMAT " (frames x bins)."),
+                     g_strdup_printf (_("The shapes differ: A is %zu x %zu, B is %zu x %zu "
+                                        "(frames x bins)."),
                                       al->a_frames, al->a_bins, al->b_frames, al->b_bins));
   if (al->time_resampled)
     {
@@ -560,9 +558,9 @@ add_alignment_notes (FwCompareResult *r)
                                       al->index_shift > 0 ? al->index_shift : 0L));
   if (al->a_unused_frames > 0 || al->b_unused_frames > 0)
     g_ptr_array_add (r->notes,
-                     g_strdup_printf (_("Compared the %" G_GSIZE_FORMAT " frames both sides "
-                                        "cover (%.3f-%.3f s); left out %" G_GSIZE_FORMAT
-                                        " frames of A and %" G_GSIZE_FORMAT " of B."),
+                     g_strdup_printf (_("Compared the %zu frames both sides "
+                                        "cover (%.3f-%.3f s); left out %zu frames of A and "
+                                        "%zu of B."),
                                       r->diff->n_frames, al->start, al->end,
                                       al->a_unused_frames, al->b_unused_frames));
   switch (al->bin_mapping)
@@ -575,25 +573,23 @@ add_alignment_notes (FwCompareResult *r)
         const char *both = al->bin_reference == 0 ? "B" : "A";
         g_autofree char *lo = fmt_hz (al->freq_low), *hi = fmt_hz (al->freq_high);
         g_ptr_array_add (r->notes,
-                         g_strdup_printf (_("The frequency axes differ: %s's %" G_GSIZE_FORMAT
-                                            " bins were interpolated in Hz onto %s's %"
-                                            G_GSIZE_FORMAT " bin centres from %s to %s."),
+                         g_strdup_printf (_("The frequency axes differ: %s's %zu bins were "
+                                            "interpolated in Hz onto %s's %zu bin centres "
+                                            "from %s to %s."),
                                           both, al->bin_reference == 0 ? al->b_bins : al->a_bins,
                                           bref, r->diff->n_bins, lo, hi));
         if (al->a_unused_bins || al->b_unused_bins)
           g_ptr_array_add (r->notes,
                            g_strdup_printf (_("Bins outside the common frequency span were left "
-                                              "out: %" G_GSIZE_FORMAT " of A, %" G_GSIZE_FORMAT
-                                              " of B."),
+                                              "out: %zu of A, %zu of B."),
                                             al->a_unused_bins, al->b_unused_bins));
         break;
       }
     case FW_DIFF_BINS_COMMON:
       if (al->a_bins != al->b_bins)
         g_ptr_array_add (r->notes,
-                         g_strdup_printf (_("Compared the %" G_GSIZE_FORMAT " leading columns "
-                                            "both sides have (A has %" G_GSIZE_FORMAT ", B %"
-                                            G_GSIZE_FORMAT ")."),
+                         g_strdup_printf (_("Compared the %zu leading columns "
+                                            "both sides have (A has %zu, B %zu)."),
                                           r->diff->n_bins, al->a_bins, al->b_bins));
       else
         g_ptr_array_add (r->notes, g_strdup (_("The column labels differ; columns were "
@@ -602,7 +598,7 @@ add_alignment_notes (FwCompareResult *r)
     case FW_DIFF_BINS_BY_INDEX:
       g_ptr_array_add (r->notes,
                        g_strdup_printf (_("The bin axes are of different kinds; compared the "
-                                          "first %" G_GSIZE_FORMAT " columns by index."),
+                                          "first %zu columns by index."),
                                         r->diff->n_bins));
       break;
     }
@@ -622,23 +618,6 @@ fw_compare_result_free (FwCompareResult *r)
   if (r->notes)
     g_ptr_array_unref (r->notes);
   g_free (r);
-}
-
-static const char *
-stage_unit (FwStage stage)
-{
-  switch (stage)
-    {
-    case FW_STAGE_DB:
-    case FW_STAGE_MEL_DB:
-      return "dB";
-    case FW_STAGE_CENTROID:
-    case FW_STAGE_BANDWIDTH:
-    case FW_STAGE_ROLLOFF:
-      return "Hz";
-    default:
-      return "";
-    }
 }
 
 /* Gives file operands the other side's grid where the file says nothing. */
@@ -664,9 +643,9 @@ adopt_for (const FwFeatureFile *file, FwMatrix *m, const FwMatrix *other, const 
   if (notes && !bins && other->bin_kind != FW_BIN_AXIS_COEFFICIENT
       && other->bin_kind != FW_BIN_AXIS_SCALAR)
     g_ptr_array_add (notes,
-                     g_strdup_printf (_("%s has %" G_GSIZE_FORMAT " columns and %s %"
-                                        G_GSIZE_FORMAT " bins; without frequencies in the file "
-                                        "the columns are compared by index."),
+                     g_strdup_printf (_("%s has %zu columns and %s %zu bins; without "
+                                        "frequencies in the file the columns are compared by "
+                                        "index."),
                                       side, out->n_bins, other_side, other->n_bins));
   return out;
 }
@@ -702,7 +681,7 @@ _fw_compare_matrices (FwMatrix *ma, FwMatrix *mb, const FwFeatureFile *fa, const
       fw_diff_options_init (&opt);
       opt.value_kind = fw_compare_value_kind (stage, params);
     }
-  r->unit = g_strdup (stage_unit (stage));
+  r->unit = g_strdup (fw_feature_value_unit (stage, NULL));
   r->expl_unit = g_strdup (opt.value_kind != FW_DIFF_VALUES_PLAIN ? "dB" : r->unit);
 
   if (!fw_diff_time_overlap (a, b, NULL, NULL))
@@ -821,27 +800,25 @@ fw_compare_result_to_text (const FwCompareResult *r)
 
   corr = isnan (d->correlation) ? g_strdup ("n/a")
                                 : g_strdup_printf ("%.6f", d->correlation);
-  g_string_append_printf (s, _("A: %s (%" G_GSIZE_FORMAT " frames x %" G_GSIZE_FORMAT " bins)\n"),
+  g_string_append_printf (s, _("A: %s (%zu frames x %zu bins)\n"),
                           r->label_a, al->a_frames, al->a_bins);
-  g_string_append_printf (s, _("B: %s (%" G_GSIZE_FORMAT " frames x %" G_GSIZE_FORMAT " bins)\n"),
+  g_string_append_printf (s, _("B: %s (%zu frames x %zu bins)\n"),
                           r->label_b, al->b_frames, al->b_bins);
   if (r->frames_by_index)
-    g_string_append_printf (s, _("Compared: %" G_GSIZE_FORMAT " frames x %" G_GSIZE_FORMAT
-                                 " bins, frames %.0f-%.0f\n"),
+    g_string_append_printf (s, _("Compared: %zu frames x %zu bins, frames %.0f-%.0f\n"),
                             d->n_frames, d->n_bins, al->start, al->end);
   else
-    g_string_append_printf (s, _("Compared: %" G_GSIZE_FORMAT " frames x %" G_GSIZE_FORMAT
-                                 " bins, %.3f-%.3f s\n"),
+    g_string_append_printf (s, _("Compared: %zu frames x %zu bins, %.3f-%.3f s\n"),
                             d->n_frames, d->n_bins, al->start, al->end);
   for (guint i = 0; i < r->notes->len; i++)
     g_string_append_printf (s, "  %s\n", (const char *) r->notes->pdata[i]);
   if (r->frames_by_index)
-    g_string_append_printf (s, _("max |B-A| %s%s%s at frame %" G_GSIZE_FORMAT ", %s; RMS %s; "
+    g_string_append_printf (s, _("max |B-A| %s%s%s at frame %zu, %s; RMS %s; "
                                  "mean %s; correlation %s\n"),
                             mx, *r->unit ? " " : "", r->unit, d->max_frame, where, rms, mean,
                             corr);
   else
-    g_string_append_printf (s, _("max |B-A| %s%s%s at frame %" G_GSIZE_FORMAT " (%.3f s), %s; "
+    g_string_append_printf (s, _("max |B-A| %s%s%s at frame %zu (%.3f s), %s; "
                                  "RMS %s; mean %s; correlation %s\n"),
                             mx, *r->unit ? " " : "", r->unit, d->max_frame,
                             d->a->frame_times[d->max_frame], where, rms, mean, corr);
@@ -1080,7 +1057,7 @@ fw_compare_rank_knobs (FwCompareOperand *a, FwCompareOperand *b, GCancellable *c
   r = g_new0 (FwKnobRanking, 1);
   r->knobs = g_ptr_array_new_with_free_func ((GDestroyNotify) knob_free);
   kind = fw_compare_value_kind (a->stage, a->params);
-  r->unit = g_strdup (kind != FW_DIFF_VALUES_PLAIN ? "dB" : stage_unit (a->stage));
+  r->unit = g_strdup (kind != FW_DIFF_VALUES_PLAIN ? "dB" : fw_feature_value_unit (a->stage, NULL));
   if (!difference_rms (ma, mb, kind, &r->rms_before))
     {
       g_set_error (error, FW_COMPARE_ERROR, FW_COMPARE_ERROR_ALIGN,

@@ -796,7 +796,7 @@ job_compute (Job *job, FwMatrix *parent, GError **error)
 
               g_clear_pointer (&result, fw_matrix_unref);
               g_set_error (error, FW_FEATURE_ERROR, FW_FEATURE_ERROR_FAILED,
-                           _("Computing “%s” for %s gave %" G_GSIZE_FORMAT " values that are "
+                           _("Computing “%s” for %s gave %zu values that are "
                              "not finite numbers (an internal error; please report it)"),
                            fw_stage_name (job->stage), name, n_bad);
             }

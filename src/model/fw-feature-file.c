@@ -203,11 +203,10 @@ finish_matrix (const char *name, const FwFeatureFileOptions *opt, const double *
     {
       g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_NON_FINITE,
                    g_dngettext (GETTEXT_PACKAGE,
-                                "%s: %" G_GSIZE_FORMAT " value is NaN, infinite or beyond the "
-                                "float32 range, at frame %" G_GSIZE_FORMAT ", bin %" G_GSIZE_FORMAT,
-                                "%s: %" G_GSIZE_FORMAT " values are NaN, infinite or beyond the "
-                                "float32 range; the first at frame %" G_GSIZE_FORMAT
-                                ", bin %" G_GSIZE_FORMAT,
+                                "%s: %zu value is NaN, infinite or beyond the "
+                                "float32 range, at frame %zu, bin %zu",
+                                "%s: %zu values are NaN, infinite or beyond the "
+                                "float32 range; the first at frame %zu, bin %zu",
                                 bad),
                    name, bad, bad_frame, bad_bin);
       fw_feature_file_free (file);
@@ -217,8 +216,7 @@ finish_matrix (const char *name, const FwFeatureFileOptions *opt, const double *
   if (m == NULL)
     {
       g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_UNSUPPORTED,
-                   _("%s: not enough memory for a %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT
-                     " matrix"),
+                   _("%s: not enough memory for a %zu x %zu matrix"),
                    name, n_frames, n_bins);
       fw_feature_file_free (file);
       return NULL;
@@ -481,8 +479,8 @@ fw_feature_file_parse_npy (const char *name, const guint8 *data, gsize length,
   if (header_len > length - offset)
     {
       g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                   _("%s: NPY file truncated: the header says %" G_GSIZE_FORMAT
-                     " bytes, the file has %" G_GSIZE_FORMAT " after the preamble"),
+                   _("%s: NPY file truncated: the header says %zu bytes, the file has %zu "
+                     "after the preamble"),
                    name, header_len, length - offset);
       return NULL;
     }
@@ -525,7 +523,7 @@ fw_feature_file_parse_npy (const char *name, const guint8 *data, gsize length,
   if (rows == 0 || cols == 0)
     {
       g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                   _("%s: the array is empty (shape %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT ")"),
+                   _("%s: the array is empty (shape %zu x %zu)"),
                    name, rows, cols);
       return NULL;
     }
@@ -539,8 +537,8 @@ fw_feature_file_parse_npy (const char *name, const guint8 *data, gsize length,
   if (length - offset < n_values * itemsize)
     {
       g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                   _("%s: NPY file truncated: shape %" G_GSIZE_FORMAT " x %" G_GSIZE_FORMAT
-                     " of %s needs %" G_GSIZE_FORMAT " data bytes, the file has %" G_GSIZE_FORMAT),
+                   _("%s: NPY file truncated: shape %zu x %zu of %s needs %zu data bytes, "
+                     "the file has %zu"),
                    name, rows, cols, descr, n_values * itemsize, length - offset);
       return NULL;
     }
@@ -725,8 +723,7 @@ fw_feature_file_parse_csv (const char *name, const char *text, gsize length,
       if (nf != n_cols)
         {
           g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                       _("%s: line %" G_GSIZE_FORMAT " has %" G_GSIZE_FORMAT
-                         " fields, the first row has %" G_GSIZE_FORMAT),
+                       _("%s: line %zu has %zu fields, the first row has %zu"),
                        name, li + 1, nf, n_cols);
           return NULL;
         }
@@ -736,8 +733,7 @@ fw_feature_file_parse_csv (const char *name, const char *text, gsize length,
           if (!parse_number (fields[f], &v))
             {
               g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                           _("%s: line %" G_GSIZE_FORMAT ", column %" G_GSIZE_FORMAT
-                             ": '%s' is not a number"),
+                           _("%s: line %zu, column %zu: '%s' is not a number"),
                            name, li + 1, f + 1, fields[f]);
               return NULL;
             }
@@ -747,7 +743,7 @@ fw_feature_file_parse_csv (const char *name, const char *text, gsize length,
                   || (times->len > 0 && !(v > g_array_index (times, double, times->len - 1))))
                 {
                   g_set_error (error, FW_FEATURE_FILE_ERROR, FW_FEATURE_FILE_ERROR_FORMAT,
-                               _("%s: line %" G_GSIZE_FORMAT ": the time column must increase "
+                               _("%s: line %zu: the time column must increase "
                                  "(found %s)"),
                                name, li + 1, fields[f]);
                   return NULL;

@@ -240,8 +240,8 @@ fw_feature_compute (FwAudio *audio, const FwParams *params, FwStage stage, int n
   if (n_bad > 0)
     {
       g_set_error (error, FW_FEATURE_ERROR, FW_FEATURE_ERROR_FAILED,
-                   ngettext ("%s: %" G_GSIZE_FORMAT " sample is not a finite number",
-                             "%s: %" G_GSIZE_FORMAT " samples are not finite numbers", n_bad),
+                   ngettext ("%s: %zu sample is not a finite number",
+                             "%s: %zu samples are not finite numbers", n_bad),
                    display, n_bad);
       return NULL;
     }
@@ -274,7 +274,7 @@ fw_feature_compute (FwAudio *audio, const FwParams *params, FwStage stage, int n
   if (n_bad > 0)
     {
       g_set_error (error, FW_FEATURE_ERROR, FW_FEATURE_ERROR_FAILED,
-                   _("%s: computing %s gave %" G_GSIZE_FORMAT " values that are not finite "
+                   _("%s: computing %s gave %zu values that are not finite "
                      "numbers (an internal error; please report it with the parameters)"),
                    display, fw_feature_stage_name (stage, params), n_bad);
       fw_matrix_unref (m);
@@ -443,7 +443,7 @@ fw_feature_write (const FwMatrix *m, const char *path, GError **error)
       if (buf == NULL)
         {
           g_set_error (error, G_IO_ERROR, G_IO_ERROR_FAILED,
-                       _("%s: not enough memory for %" G_GSIZE_FORMAT " bytes"), path, total);
+                       _("%s: not enough memory for %zu bytes"), path, total);
           return FALSE;
         }
       memcpy (buf, g_bytes_get_data (header, NULL), hlen);

@@ -1095,8 +1095,8 @@ fw_params_check (const FwParams *params, double analysis_rate, gsize n_samples,
           fw_frame_count (n_samples, cfg.fft_length, cfg.hop_length, cfg.centered) == 0)
         {
           g_set_error (error, FW_PARAMS_ERROR, FW_PARAMS_ERROR_CLIP,
-                       _("clip has %" G_GSIZE_FORMAT " samples at %s Hz (%s ms); one frame needs "
-                         "%" G_GSIZE_FORMAT " samples"),
+                       _("clip has %zu samples at %s Hz (%s ms); one frame needs "
+                         "%zu samples"),
                        n_samples, fw_params_format_double (analysis_rate, b1),
                        g_ascii_formatd (b2, sizeof b2, "%.1f", ms), need);
           fw_mel_bank_free (bank);
@@ -1105,9 +1105,9 @@ fw_params_check (const FwParams *params, double analysis_rate, gsize n_samples,
       if (v->centered && v->padding == FW_PADDING_REFLECT && n_samples <= pad)
         {
           g_set_error (error, FW_PARAMS_ERROR, FW_PARAMS_ERROR_CLIP,
-                       _("clip has %" G_GSIZE_FORMAT " samples; reflect padding of %" G_GSIZE_FORMAT
-                         " samples (half of fft_length) needs more than %" G_GSIZE_FORMAT
-                         " samples; use padding=zeros or padding=edge"),
+                       _("clip has %zu samples; reflect padding of %zu samples (half of "
+                         "fft_length) needs more than %zu samples; use padding=zeros or "
+                         "padding=edge"),
                        n_samples, pad, pad);
           fw_mel_bank_free (bank);
           return FALSE;
@@ -1197,7 +1197,7 @@ fw_params_check (const FwParams *params, double analysis_rate, gsize n_samples,
           gsize frames = fw_frame_count (n_samples, cfg.fft_length, cfg.hop_length, cfg.centered);
           if (frames < (gsize) (2 * v->delta_width + 1))
             add_warning (warnings, g_strdup_printf (
-              _("only %" G_GSIZE_FORMAT " frames for delta_width %d: deltas of so few frames are "
+              _("only %zu frames for delta_width %d: deltas of so few frames are "
                 "dominated by the replicated edge frames"),
               frames, v->delta_width));
         }

@@ -320,8 +320,8 @@ get_int64 (Reader *r, const char *group, const char *key, gint64 min, gint64 *ou
   if (*raw == '\0' || endp == NULL || *endp != '\0' || errno != 0 || v < min)
     {
       set_error_at (error, FW_PROJECT_ERROR_INVALID, r, key_line (r, group, key),
-                    _("[%s] key “%s”: “%s” is not a whole number >= %" G_GINT64_FORMAT),
-                    group, key, raw, min);
+                    _("[%s] key “%s”: “%s” is not a whole number >= %lld"),
+                    group, key, raw, (long long) min);
       return FALSE;
     }
   *out = v;

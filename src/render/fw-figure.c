@@ -11,6 +11,7 @@
 #include "fw-feature.h"
 #include "fw-recipe.h"
 #include "fw-render-colour-bar.h"
+#include "fw-render-curve.h"
 #include "fw-render-error.h"
 
 #define WEIGHT_HEATMAP 1.0
@@ -60,7 +61,7 @@ typedef struct {
   FwTickStyle y_style;
   char y_title[128];
   FwValueRange range;     /* heatmap: the resolved range */
-  double trace_lo, trace_hi;
+  FwCurveSpec curve;      /* trace: the curve's time and value ranges and label style */
 } RowAxes;
 
 typedef struct {
@@ -545,30 +546,6 @@ resolve_ranges (FwFigure *fig, double t0, double t1, FwValueRange *ranges)
     }
 }
 
-static void
-trace_range (const FwMatrix *m, double t0, double t1, double *lo, double *hi)
-{
-  double vmin = HUGE_VAL, vmax = -HUGE_VAL;
-  FwNiceLabels nl;
-
-  for (size_t t = 0; t < m->n_frames; t++)
-    {
-      float v = m->data[t * m->n_bins];
-      if (m->frame_times[t] < t0 || m->frame_times[t] > t1 || !isfinite (v))
-        continue;
-      vmin = MIN (vmin, v);
-      vmax = MAX (vmax, v);
-    }
-  if (!(vmax >= vmin))
-    {
-      vmin = 0;
-      vmax = 1;
-    }
-  fw_nice_loose_labels (vmin, vmax, 4, &nl);
-  *lo = nl.graph_min;
-  *hi = nl.graph_max;
-}
-
 static const char *
 trace_title (const Row *row)
 {
@@ -648,10 +625,13 @@ row_axes (FwFigure *fig, cairo_t *cr, const FwTheme *theme, const FwFigureLayout
           ax->y_style = FW_TICK_NUMBER;
           break;
         case FW_ROW_TRACE:
-          trace_range (row->matrix, t0, t1, &ax->trace_lo, &ax->trace_hi);
-          fw_axis_init (&ax->y_axis, FW_AXIS_LINEAR, ax->trace_lo, ax->trace_hi, r->y + r->h,
-                        r->y);
-          ax->y_style = FW_TICK_NUMBER;
+          fw_curve_spec_init (&ax->curve, row->stage, t0, t1);
+          /* plain numbers: the row's title gives the unit ("Centroid (Hz)"), and the
+           * quantity label in the gutter says Hz too */
+          ax->curve.style = FW_TICK_NUMBER;
+          fw_curve_auto_range (row->matrix, t0, t1, &ax->curve.range);
+          fw_curve_value_axis (&ax->curve, r->y + r->h, r->y, &ax->y_axis);
+          ax->y_style = ax->curve.style;
           break;
         case FW_ROW_HEATMAP:
         default:
@@ -849,82 +829,6 @@ frame_rect (cairo_t *cr, const FwTheme *theme, const FwRect *r)
 }
 
 static void
-draw_trace (cairo_t *cr, const FwTheme *theme, const FwMatrix *m, const FwAxis *time_axis,
-            const FwAxis *y_axis, const FwRect *r, int n_columns)
-{
-  size_t f0 = 0, f1 = m->n_frames;
-  double t0 = time_axis->v0, t1 = time_axis->v1;
-  gboolean pen = FALSE;
-
-  while (f0 < m->n_frames && m->frame_times[f0] < t0)
-    f0++;
-  while (f1 > f0 && m->frame_times[f1 - 1] > t1)
-    f1--;
-  /* include one frame beyond each end so the line reaches the edges */
-  if (f0 > 0)
-    f0--;
-  if (f1 < m->n_frames)
-    f1++;
-
-  cairo_save (cr);
-  cairo_rectangle (cr, r->x, r->y, r->w, r->h);
-  cairo_clip (cr);
-  fw_theme_set_source (cr, &theme->trace);
-  cairo_set_line_width (cr, theme->trace_width);
-  cairo_set_line_join (cr, CAIRO_LINE_JOIN_ROUND);
-
-  if (f1 - f0 <= (size_t) (2 * n_columns))
-    {
-      for (size_t t = f0; t < f1; t++)
-        {
-          float v = m->data[t * m->n_bins];
-          double px = fw_axis_value_to_pixel (time_axis, m->frame_times[t]);
-          if (!isfinite (v))
-            {
-              pen = FALSE;
-              continue;
-            }
-          if (pen)
-            cairo_line_to (cr, px, fw_axis_value_to_pixel (y_axis, v));
-          else
-            cairo_move_to (cr, px, fw_axis_value_to_pixel (y_axis, v));
-          pen = TRUE;
-        }
-    }
-  else
-    {
-      /* more frames than columns: a min/max zigzag per column keeps every peak */
-      size_t t = f0;
-      for (int c = 0; c < n_columns; c++)
-        {
-          double tb = t0 + (t1 - t0) * (c + 1) / n_columns;
-          double lo = HUGE_VAL, hi = -HUGE_VAL;
-          double px = r->x + r->w * (c + 0.5) / n_columns;
-          while (t < f1 && m->frame_times[t] < tb)
-            {
-              float v = m->data[t * m->n_bins];
-              if (isfinite (v))
-                {
-                  lo = MIN (lo, v);
-                  hi = MAX (hi, v);
-                }
-              t++;
-            }
-          if (!(hi >= lo))
-            continue;
-          if (pen)
-            cairo_line_to (cr, px, fw_axis_value_to_pixel (y_axis, hi));
-          else
-            cairo_move_to (cr, px, fw_axis_value_to_pixel (y_axis, hi));
-          cairo_line_to (cr, px, fw_axis_value_to_pixel (y_axis, lo));
-          pen = TRUE;
-        }
-    }
-  cairo_stroke (cr);
-  cairo_restore (cr);
-}
-
-static void
 draw_letter (cairo_t *cr, const FwTheme *theme, double x, double y, size_t index)
 {
   char text[16];
@@ -1010,9 +914,9 @@ fw_figure_draw (FwFigure *fig, cairo_t *cr, const FwTheme *theme, double width, 
           break;
         case FW_ROW_TRACE:
           {
-            FwAxis ta;
-            fw_axis_init (&ta, FW_AXIS_LINEAR, t0, t1, r->x, r->x + r->w);
-            draw_trace (cr, theme, row->matrix, &ta, &ax->y_axis, r, cols);
+            FwCurveSpec cs = ax->curve;
+            cs.n_columns = cols;
+            fw_curve_draw (cr, theme, &cs, row->matrix, r->x, r->y, r->w, r->h);
             fw_theme_set_source (cr, &theme->foreground);
             fw_theme_draw_rotated_block (cr, theme, FW_TEXT_AXIS, row->quantity, r->h,
                                          lay.data_right + theme->colour_bar_gap, r->y + r->h / 2);

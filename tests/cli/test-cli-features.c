@@ -24,33 +24,6 @@
 static char *tmp_dir;
 static const char *cli;
 
-/* [issue2] the defaults, canonical form written by hand */
-static const char default_text[] =
-  "[framewise-parameters]\n"
-  "format=1\n"
-  "sample_rate=22050\n"
-  "channel=mix\n"
-  "pre_emphasis=0\n"
-  "window_length=2048\n"
-  "hop_length=512\n"
-  "fft_length=2048\n"
-  "window=hann\n"
-  "window_symmetry=periodic\n"
-  "centered=true\n"
-  "padding=zeros\n"
-  "spectrum=power\n"
-  "mel_bands=128\n"
-  "mel_scale=slaney\n"
-  "fmin=0\n"
-  "fmax=0\n"
-  "mel_weights=area\n"
-  "db_reference=1\n"
-  "db_floor=1e-10\n"
-  "dynamic_range=0\n"
-  "cepstral_count=13\n"
-  "dct_norm=ortho\n"
-  "lifter=0\n"
-  "delta_width=2\n";
 
 typedef struct {
   int exit_code;
@@ -123,8 +96,8 @@ static void
 test_params_default (void)
 {
   g_auto (Run) a = { 0 }, b = { 0 };
-  g_autofree char *sum = g_compute_checksum_for_string (G_CHECKSUM_SHA256, default_text, -1);
-  g_autofree char *expected = g_strdup_printf ("%shash: %.16s\n", default_text, sum);
+  g_autofree char *sum = g_compute_checksum_for_string (G_CHECKSUM_SHA256, fw_test_default_params_text, -1);
+  g_autofree char *expected = g_strdup_printf ("%shash: %.16s\n", fw_test_default_params_text, sum);
 
   run (&a, "params", NULL);
   g_assert_cmpint (a.exit_code, ==, 0);

@@ -100,3 +100,31 @@ fw_test_path (const char *dir, const char *name)
 {
   return g_build_filename (dir, name, NULL);
 }
+
+/* [issue2] The defaults listed in issue 2, written out in the canonical form by hand. */
+const char fw_test_default_params_text[] =
+  "[framewise-parameters]\n"
+  "format=1\n"
+  "sample_rate=22050\n"
+  "channel=mix\n"
+  "pre_emphasis=0\n"
+  "window_length=2048\n"
+  "hop_length=512\n"
+  "fft_length=2048\n"
+  "window=hann\n"
+  "window_symmetry=periodic\n"
+  "centered=true\n"
+  "padding=zeros\n"
+  "spectrum=power\n"
+  "mel_bands=128\n"
+  "mel_scale=slaney\n"
+  "fmin=0\n"
+  "fmax=0\n"
+  "mel_weights=area\n"
+  "db_reference=1\n"
+  "db_floor=1e-10\n"
+  "dynamic_range=0\n"
+  "cepstral_count=13\n"
+  "dct_norm=ortho\n"
+  "lifter=0\n"
+  "delta_width=2\n";

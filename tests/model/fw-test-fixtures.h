@@ -27,4 +27,8 @@ float *fw_test_sine (gsize n, double rate, double freq, double amplitude, double
 /* A path inside dir (g_build_filename). Caller frees. */
 char *fw_test_path (const char *dir, const char *name);
 
+/* The defaults listed in issue 2, written out in canonical form by hand (the oracle for
+ * fw_params_to_text and `framewise-cli params`). */
+extern const char fw_test_default_params_text[];
+
 G_END_DECLS

@@ -22,33 +22,6 @@
 #include "fw-params.h"
 #include "fw-test-fixtures.h"
 
-/* [issue2] The defaults listed in issue 2, written out in the canonical form by hand. */
-static const char default_text[] =
-  "[framewise-parameters]\n"
-  "format=1\n"
-  "sample_rate=22050\n"
-  "channel=mix\n"
-  "pre_emphasis=0\n"
-  "window_length=2048\n"
-  "hop_length=512\n"
-  "fft_length=2048\n"
-  "window=hann\n"
-  "window_symmetry=periodic\n"
-  "centered=true\n"
-  "padding=zeros\n"
-  "spectrum=power\n"
-  "mel_bands=128\n"
-  "mel_scale=slaney\n"
-  "fmin=0\n"
-  "fmax=0\n"
-  "mel_weights=area\n"
-  "db_reference=1\n"
-  "db_floor=1e-10\n"
-  "dynamic_range=0\n"
-  "cepstral_count=13\n"
-  "dct_norm=ortho\n"
-  "lifter=0\n"
-  "delta_width=2\n";
 
 static void
 test_defaults (void)
@@ -63,7 +36,7 @@ test_defaults (void)
     "cepstral_count", "dct_norm", "lifter", "delta_width", NULL
   };
 
-  g_assert_cmpstr (fw_params_get_text (p), ==, default_text);
+  g_assert_cmpstr (fw_params_get_text (p), ==, fw_test_default_params_text);
   g_assert_cmpuint (g_strv_length ((char **) keys), ==, 23);
   for (guint i = 0; expected_keys[i] != NULL; i++)
     g_assert_cmpstr (keys[i], ==, expected_keys[i]);
@@ -92,9 +65,9 @@ test_canonical_roundtrip (void)
   };
 
   /* Default text back to itself. */
-  a = fw_params_new_from_text (default_text, -1, &error);
+  a = fw_params_new_from_text (fw_test_default_params_text, -1, &error);
   g_assert_no_error (error);
-  g_assert_cmpstr (fw_params_get_text (a), ==, default_text);
+  g_assert_cmpstr (fw_params_get_text (a), ==, fw_test_default_params_text);
   g_assert_true (fw_params_equal (a, d));
 
   /* Every key changed, then text -> set -> text and file -> set -> text. */
@@ -212,7 +185,7 @@ test_hash (void)
 {
   g_autoptr (FwParams) d = fw_params_new_default ();
   g_autoptr (GError) error = NULL;
-  g_autofree char *sum = g_compute_checksum_for_string (G_CHECKSUM_SHA256, default_text, -1);
+  g_autofree char *sum = g_compute_checksum_for_string (G_CHECKSUM_SHA256, fw_test_default_params_text, -1);
   g_autofree char *dir = fw_test_make_dir ();
   g_autofree char *path = fw_test_path (dir, "default.fwparams");
   g_autofree char *sha256sum = g_find_program_in_path ("sha256sum");
@@ -261,7 +234,7 @@ test_boxed (void)
   g_assert_true (G_TYPE_IS_BOXED (FW_TYPE_PARAMS));
   g_assert_true (copy == d); /* immutable: a copy is a reference */
   g_boxed_free (FW_TYPE_PARAMS, copy);
-  g_assert_cmpstr (fw_params_get_text (d), ==, default_text);
+  g_assert_cmpstr (fw_params_get_text (d), ==, fw_test_default_params_text);
 }
 
 /* Asserts that error mentions every string in `parts`. */
