@@ -142,6 +142,7 @@ fw_application_startup (GApplication *app)
     { "win.save-as", { "<Control><Shift>s", NULL } },
     { "win.add-clips", { "<Control>i", NULL } },
     { "win.export-figure", { "<Control>e", NULL } },
+    { "win.compare-new", { "<Control>k", NULL } },
     { "win.zoom-in", { "<Control>plus", "<Control>equal", NULL } },
     { "win.zoom-out", { "<Control>minus", NULL } },
     { "win.zoom-fit", { "<Control>0", NULL } },
@@ -282,7 +283,7 @@ fw_application_command_line (GApplication *app, GApplicationCommandLine *cmdline
         {
           g_application_command_line_printerr (cmdline,
                                                 _("framewise: could not open %s\n"), path);
-          fw_window_close_discarding (win);
+          gtk_window_destroy (GTK_WINDOW (win));   /* never shown: nothing to ask */
           return 1;
         }
     }
@@ -318,7 +319,7 @@ fw_application_command_line (GApplication *app, GApplicationCommandLine *cmdline
                                                error->message);
           if (screenshot != NULL)
             {
-              fw_window_close_discarding (win);
+              gtk_window_destroy (GTK_WINDOW (win));
               return 2;
             }
           fw_window_show_error (win, error->message);

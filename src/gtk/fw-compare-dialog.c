@@ -485,6 +485,7 @@ fw_compare_dialog_new (GtkWindow *parent, FwProject *project, FwClip *a_clip,
   self->file_widgets[self->n_file_widgets++] = lbl;
   self->origin = gtk_spin_button_new_with_range (-3600, 3600, 0.001);
   gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->origin), 4);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->origin), 0);
   attach (GTK_GRID (grid), row++, _("First frame _centre"), spin_with_unit (self->origin, _("s")),
           &lbl);
   self->file_widgets[self->n_file_widgets++] = lbl;
@@ -508,6 +509,7 @@ fw_compare_dialog_new (GtkWindow *parent, FwProject *project, FwClip *a_clip,
   g_signal_connect (cancel, "clicked", G_CALLBACK (on_cancel_clicked), self);
   g_signal_connect (compare, "clicked", G_CALLBACK (on_compare_clicked), self);
   g_signal_connect (self->b_is_clip, "toggled", G_CALLBACK (on_toggled), self);
+  g_signal_connect (self->b_is_file, "toggled", G_CALLBACK (on_toggled), self);
   gtk_window_set_child (GTK_WINDOW (self), box);
   gtk_window_set_default_widget (GTK_WINDOW (self), compare);
 

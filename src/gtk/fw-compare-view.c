@@ -231,6 +231,7 @@ static guint signals[N_SIGNALS];
 
 static void start (FwCompareView *self);
 static void update_progress (FwCompareView *self);
+static gboolean finder_sides (FwCompareView *self, guint *dump, guint *clip);
 
 static void
 emit_state (FwCompareView *self)
@@ -898,7 +899,34 @@ update_headline (FwCompareView *self)
     g_string_append (s, _("A and B are identical."));
   else
     {
-      if (same_settings (self))
+      if (self->finder != NULL && self->finder->changed_keys != NULL &&
+          self->finder->changed_keys[0] != NULL)
+        {
+          GString *keys = g_string_new (NULL);
+          for (guint i = 0; self->finder->changed_keys[i] != NULL; i++)
+            {
+              g_autofree char *v = fw_params_get_value (self->finder->params,
+                                                        self->finder->changed_keys[i]);
+              g_string_append_printf (keys, "%s%s=%s", i > 0 ? ", " : "",
+                                      self->finder->changed_keys[i], v);
+            }
+          guint dump = 1, clip = 0;
+          g_autofree char *source = NULL;
+
+          finder_sides (self, &dump, &clip);
+          source = side_name (self->cmp, clip);
+          if (self->finder->relative_rms < FW_EXPLAIN_EXACT_RELATIVE)
+            /* TRANSLATORS: first %s is "clip · parameter set", the second "key=value, ..." */
+            g_string_append_printf (s, _("The file is %s with %s: with those settings the two "
+                                         "agree to float32 rounding."),
+                                    source, keys->str);
+          else
+            g_string_append_printf (s, _("The closest settings for the file are %s; they leave "
+                                         "%.2g of its RMS unexplained."),
+                                    keys->str, self->finder->relative_rms);
+          g_string_free (keys, TRUE);
+        }
+      else if (same_settings (self))
         g_string_append (s, _("Both sides use the same settings, so the difference is in the "
                               "sound itself."));
       else if (self->ranking != NULL && self->ranking->knobs->len > 0)
@@ -1070,7 +1098,7 @@ fill_knobs (FwCompareView *self)
     return;
   before = with_unit (r->rms_before, r->unit, "%.3g");
   text = g_strdup_printf (g_dngettext (GETTEXT_PACKAGE,
-                                       "One key differs. The RMS difference is %s; the row below "
+                                       "%u key differs. The RMS difference is %s; the row below "
                                        "says how much of it goes away when A takes B's value "
                                        "for that key alone.",
                                        "%u keys differ. The RMS difference is %s; each row says "
@@ -1327,6 +1355,7 @@ on_finder_done (GObject *source, GAsyncResult *result, gpointer user_data)
       g_clear_pointer (&self->finder, fw_explain_result_free);
       self->finder = r;
       fill_finder (self);
+      update_headline (self);
     }
   emit_state (self);
   pending_free (p);
@@ -1538,6 +1567,8 @@ prepare_knob_section (FwCompareView *self)
       gtk_label_set_text (self->knobs_heading, _("Which Conventions Made the File"));
       gtk_label_set_text (self->knobs_label, text);
       gtk_widget_set_visible (GTK_WIDGET (self->finder_button), TRUE);
+      /* the question the user came with: answer it at once (it can be stopped) */
+      fw_compare_view_start_finder (self);
       return;
     }
   gtk_label_set_text (self->knobs_heading, _("Which Key Explains It"));

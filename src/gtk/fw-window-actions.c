@@ -401,6 +401,7 @@ action_cancel_work (GSimpleAction *action, GVariant *param, gpointer user_data)
 {
   FwWindow *self = user_data;
   fw_plot_stack_cancel (self->plot_stack);
+  fw_compare_view_cancel (self->compare_view);
 }
 
 static void
