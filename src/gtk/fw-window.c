@@ -435,14 +435,14 @@ fw_window_compare (FwWindow *self, const char *a, const char *b, const char *sta
                    GError **error)
 {
   FwOperandKind kind[2];
-  g_autofree char *clip[2] = { NULL, NULL };
-  g_autofree char *set[2] = { NULL, NULL };
+  g_autofree char *clip_a = NULL, *clip_b = NULL, *set_a = NULL, *set_b = NULL;
+  char **clip[2] = { &clip_a, &clip_b };
+  char **set[2] = { &set_a, &set_b };
   const char *specs[2] = { a, b };
   FwStage parsed = FW_STAGE_DB;
   g_autoptr (FwComparison) draft = NULL;
   g_autoptr (FwComparison) cmp = NULL;
   g_autofree char *name = NULL;
-  g_autofree char *clip_b = NULL;
 
   g_return_val_if_fail (FW_IS_WINDOW (self), FALSE);
   g_return_val_if_fail (a != NULL && b != NULL, FALSE);
@@ -451,18 +451,13 @@ fw_window_compare (FwWindow *self, const char *a, const char *b, const char *sta
   if (stage != NULL && !fw_feature_parse_stage (stage, &parsed, error))
     return FALSE;
   for (guint s = 0; s < 2; s++)
-    {
-      char *c = NULL, *st = NULL;
-      if (!parse_side (self, specs[s], s == 0 ? "A" : "B", &kind[s], &c, &st, error))
-        return FALSE;
-      clip[s] = c;
-      set[s] = st;
-    }
+    if (!parse_side (self, specs[s], s == 0 ? "A" : "B", &kind[s], clip[s], set[s], error))
+      return FALSE;
   for (guint pass = 0; pass < 2; pass++)
     {
       FwComparison *c = fw_comparison_new (pass == 0 ? "" : name, fw_stage_name (parsed));
       for (guint s = 0; s < 2; s++)
-        fw_comparison_set_operand (c, s, kind[s], clip[s], set[s], "");
+        fw_comparison_set_operand (c, s, kind[s], *clip[s], *set[s], "");
       if (pass == 0)
         {
           draft = c;

@@ -475,7 +475,42 @@ test_dialog (void)
   fw_compare_dialog_set_file (dialog, "/nonexistent/dump.npy");
   g_assert_null (fw_compare_dialog_build (dialog, &error));
   g_assert_nonnull (strstr (error->message, "/nonexistent/dump.npy"));
+  g_clear_error (&error);
   gtk_window_destroy (GTK_WINDOW (dialog));
+
+  /* from the sidebar: the dialog opens for the selected clip and set, and what it builds
+   * becomes a saved comparison shown in the view */
+  {
+    GListModel *tops = gtk_window_get_toplevels ();
+    FwCompareDialog *found = NULL;
+    g_autoptr (FwComparison) built = NULL;
+    guint n_cmp = g_list_model_get_n_items (fw_project_get_comparisons (project));
+
+    gtk_widget_activate_action (GTK_WIDGET (w), "win.close-compare", NULL);
+    gtk_widget_activate_action (GTK_WIDGET (w), "win.compare-new", NULL);
+    fw_test_spin (0.2);
+    for (guint i = 0; i < g_list_model_get_n_items (tops); i++)
+      {
+        g_autoptr (GtkWindow) top = g_list_model_get_item (tops, i);
+        if (FW_IS_COMPARE_DIALOG (top))
+          found = FW_COMPARE_DIALOG (top);
+      }
+    g_assert_nonnull (found);
+    built = fw_compare_dialog_build (found, &error);
+    g_assert_no_error (error);
+    g_assert_cmpstr (fw_comparison_get_clip (built, 0), ==,
+                     fw_clip_get_path (_fw_window_get_clip (w)));
+    g_assert_cmpstr (fw_comparison_get_param_set (built, 0), ==,
+                     fw_param_set_get_name (_fw_window_get_param_set (w)));
+    g_signal_emit_by_name (found, "compare", built);
+    gtk_window_destroy (GTK_WINDOW (found));
+    g_assert_true (_fw_window_compare_shown (w));
+    g_assert_true (fw_compare_view_get_comparison (_fw_window_get_compare_view (w)) == built);
+    g_assert_cmpuint (g_list_model_get_n_items (fw_project_get_comparisons (project)), ==,
+                      n_cmp + 1);
+    g_assert_true (fw_test_wait_settled (w, 240));
+    g_assert_nonnull (fw_compare_view_get_result (_fw_window_get_compare_view (w)));
+  }
 }
 
 int
