@@ -9,6 +9,7 @@
 
 #include "fw-feature.h"
 #include "fw-render-colour-bar.h"
+#include "fw-render-curve.h"
 
 static void
 draw_frame (cairo_t *cr, const FwTheme *theme, const FwPlotDrawInfo *info)
@@ -77,69 +78,23 @@ draw_waveform (cairo_t *cr, const FwTheme *theme, const FwPlotDrawInfo *info)
   draw_value_axis (cr, theme, &axis, FW_TICK_NUMBER, info->x, NULL);
 }
 
-/* A descriptor row: one value per frame as a line over time, y axis from the values shown. */
+/* A descriptor row: one value per frame as a line over time (src/render/fw-render-curve). */
 static void
 draw_trace (cairo_t *cr, const FwTheme *theme, const FwPlotDrawInfo *info)
 {
-  const FwMatrix *m = info->matrix;
-  FwValueRange range;
-  FwAxis axis;
-  gboolean started = FALSE;
-  double spt = (info->t1 - info->t0) / info->w;
-  FwTickStyle style = info->stage == FW_STAGE_CENTROID || info->stage == FW_STAGE_BANDWIDTH ||
-                      info->stage == FW_STAGE_ROLLOFF ? FW_TICK_FREQUENCY : FW_TICK_NUMBER;
+  FwCurveSpec spec;
+  double pad;
 
   if (!info->have_trace_range)
     return;
-  range = info->trace_range;
+  fw_curve_spec_init (&spec, info->stage, info->t0, info->t1);
+  spec.range = info->trace_range;
   /* a little headroom so the line does not run along the frame */
-  {
-    double pad = 0.06 * (range.hi - range.lo);
-    range.lo -= pad;
-    range.hi += pad;
-  }
-  cairo_save (cr);
-  fw_theme_set_source (cr, &theme->data_background);
-  cairo_rectangle (cr, info->x, info->y, info->w, info->h);
-  cairo_fill_preserve (cr);
-  cairo_clip (cr);
-  fw_axis_init (&axis, FW_AXIS_LINEAR, range.lo, range.hi, info->y + info->h, info->y);
-  if (info->zero_line)
-    {
-      double zy = round (fw_axis_value_to_pixel (&axis, 0)) + 0.5;
-      cairo_save (cr);
-      fw_theme_set_source (cr, &theme->muted);
-      cairo_set_line_width (cr, 1);
-      cairo_move_to (cr, info->x, zy);
-      cairo_line_to (cr, info->x + info->w, zy);
-      cairo_stroke (cr);
-      cairo_restore (cr);
-    }
-  for (size_t t = 0; t < m->n_frames; t++)
-    {
-      double time = m->frame_times[t];
-      float v = fw_matrix_get (m, t, 0);
-      double px, py;
-
-      if (time < info->t0 - m->hop_seconds || time > info->t1 + m->hop_seconds || !isfinite (v))
-        {
-          started = FALSE;
-          continue;
-        }
-      px = info->x + (time - info->t0) / spt;
-      py = fw_axis_value_to_pixel (&axis, v);
-      if (!started)
-        cairo_move_to (cr, px, py);
-      else
-        cairo_line_to (cr, px, py);
-      started = TRUE;
-    }
-  fw_theme_set_source (cr, &theme->trace);
-  cairo_set_line_width (cr, theme->trace_width);
-  cairo_set_line_join (cr, CAIRO_LINE_JOIN_ROUND);
-  cairo_stroke (cr);
-  cairo_restore (cr);
-  draw_value_axis (cr, theme, &axis, style, info->x, NULL);
+  pad = 0.06 * (spec.range.hi - spec.range.lo);
+  spec.range.lo -= pad;
+  spec.range.hi += pad;
+  spec.zero_line = info->zero_line;
+  fw_curve_draw_row (cr, theme, &spec, info->matrix, info->x, info->y, info->w, info->h);
 }
 
 void
