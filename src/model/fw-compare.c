@@ -713,12 +713,42 @@ _fw_compare_matrices (FwMatrix *ma, FwMatrix *mb, const FwFeatureFile *fa, const
   return g_steal_pointer (&r);
 }
 
+/* A clip analysed at another rate than its file's says so: a clip upsampled from a lower rate
+ * holds nothing above its file's Nyquist frequency, which can be the whole difference. */
+static void
+add_resampling_note (FwCompareResult *r, FwCompareOperand *op, const char *side)
+{
+  FwAudioInfo info = { 0 };
+  int rate;
+
+  if (op->kind != FW_COMPARE_OP_CLIP || op->path == NULL || op->params == NULL)
+    return;
+  rate = fw_params_get_sample_rate (op->params);
+  if (rate == 0 || !fw_audio_read_info (op->path, &info, NULL))
+    {
+      fw_audio_info_clear (&info);
+      return;
+    }
+  if (info.sample_rate < rate)
+    g_ptr_array_add (r->notes,
+                     g_strdup_printf (_("%s (%s) was resampled from %d Hz to %d Hz: it holds "
+                                        "nothing above %d Hz, the Nyquist frequency of its file."),
+                                      side, op->label, info.sample_rate, rate,
+                                      info.sample_rate / 2));
+  else if (info.sample_rate > rate)
+    g_ptr_array_add (r->notes,
+                     g_strdup_printf (_("%s (%s) was resampled from %d Hz to %d Hz."), side,
+                                      op->label, info.sample_rate, rate));
+  fw_audio_info_clear (&info);
+}
+
 FwCompareResult *
 fw_compare_run (FwCompareOperand *a, FwCompareOperand *b, const FwDiffOptions *options,
                 GCancellable *cancellable, GError **error)
 {
   g_autoptr (FwCmpMatrix) ma = NULL;
   g_autoptr (FwCmpMatrix) mb = NULL;
+  FwCompareResult *r;
   FwStage stage;
   FwParams *params;
 
@@ -731,9 +761,14 @@ fw_compare_run (FwCompareOperand *a, FwCompareOperand *b, const FwDiffOptions *o
     return NULL;
   stage = a->stage >= 0 ? a->stage : b->stage;
   params = a->params ? a->params : b->params;
-  return _fw_compare_matrices (ma, mb, _fw_compare_operand_file (a), _fw_compare_operand_file (b),
-                               a->label, b->label, stage,
-                           params, options, error);
+  r = _fw_compare_matrices (ma, mb, _fw_compare_operand_file (a), _fw_compare_operand_file (b),
+                            a->label, b->label, stage, params, options, error);
+  if (r != NULL)
+    {
+      add_resampling_note (r, a, "A");
+      add_resampling_note (r, b, "B");
+    }
+  return r;
 }
 
 typedef struct {
