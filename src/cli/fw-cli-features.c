@@ -291,7 +291,12 @@ fw_cli_info (int argc, char **argv)
 
   g_printf (_("analysis:\n"));
   if (audio->channel == 0)
-    g_printf (_("  channel: mix (mean of %d channels)\n"), fi->channels);
+    {
+      if (fi->channels == 1)
+        g_printf ("%s", _("  channel: mix (the file has one channel)\n"));
+      else
+        g_printf (_("  channel: mix (mean of %d channels)\n"), fi->channels);
+    }
   else
     g_printf (_("  channel: %d of %d\n"), audio->channel, fi->channels);
   if (resampled != NULL)
