@@ -102,38 +102,13 @@ on_stage_ready (GObject *source, GAsyncResult *result, gpointer user_data)
   g_free (req);
 }
 
-typedef struct {
-  FwClip *clip;
-  int channel, rate;
-} AudioJob;
-
-static void
-audio_job_free (AudioJob *job)
-{
-  g_object_unref (job->clip);
-  g_free (job);
-}
-
-static void
-audio_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
-{
-  AudioJob *job = task_data;
-  GError *error = NULL;
-  FwAudio *audio = fw_clip_load_audio (job->clip, job->channel, job->rate, cancellable, &error);
-
-  if (audio == NULL)
-    g_task_return_error (task, error);
-  else
-    g_task_return_pointer (task, audio, (GDestroyNotify) fw_audio_unref);
-}
-
 static void
 on_audio_ready (GObject *source, GAsyncResult *result, gpointer user_data)
 {
-  FwExportDialog *self = FW_EXPORT_DIALOG (source);
+  g_autoptr (FwExportDialog) self = user_data;   /* the reference start_loading took */
   g_autoptr (GError) error = NULL;
 
-  self->audio = g_task_propagate_pointer (G_TASK (result), &error);
+  self->audio = fw_clip_load_audio_finish (FW_CLIP (source), result, &error);
   if (self->audio == NULL && self->load_error == NULL)
     self->load_error = g_strdup (error->message);
   one_done (self);
@@ -144,9 +119,6 @@ on_audio_ready (GObject *source, GAsyncResult *result, gpointer user_data)
 static void
 start_loading (FwExportDialog *self)
 {
-  AudioJob *job = g_new0 (AudioJob, 1);
-  g_autoptr (GTask) task = g_task_new (self, self->cancellable, on_audio_ready, NULL);
-  int channel = fw_clip_get_channel (self->clip);
   gboolean wanted[FW_N_STAGES] = { FALSE };
 
   for (int k = 0; k < FW_N_PLOT_KINDS; k++)
@@ -166,12 +138,8 @@ start_loading (FwExportDialog *self)
                                         self->cancellable, on_stage_ready, req);
       }
 
-  job->clip = g_object_ref (self->clip);
-  job->channel = channel == FW_CLIP_CHANNEL_FROM_PARAMS ? fw_params_get_channel (self->params) : channel;
-  job->rate = fw_params_get_sample_rate (self->params);
-  g_task_set_source_tag (task, start_loading);
-  g_task_set_task_data (task, job, (GDestroyNotify) audio_job_free);
-  g_task_run_in_thread (task, audio_thread);
+  fw_clip_load_audio_async (self->clip, self->params, self->cancellable, on_audio_ready,
+                            g_object_ref (self));
   gtk_label_set_text (self->status_label, _("Computing the features for the figure…"));
 }
 

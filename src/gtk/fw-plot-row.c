@@ -447,38 +447,12 @@ on_matrix_ready (GObject *source, GAsyncResult *result, gpointer user_data)
   g_object_unref (row);
 }
 
-typedef struct {
-  FwClip *clip;
-  int channel;
-  int rate;
-} AudioJob;
-
-static void
-audio_job_free (AudioJob *job)
-{
-  g_object_unref (job->clip);
-  g_free (job);
-}
-
-static void
-audio_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
-{
-  AudioJob *job = task_data;
-  GError *error = NULL;
-  FwAudio *audio = fw_clip_load_audio (job->clip, job->channel, job->rate, cancellable, &error);
-
-  if (audio == NULL)
-    g_task_return_error (task, error);
-  else
-    g_task_return_pointer (task, audio, (GDestroyNotify) fw_audio_unref);
-}
-
 static void
 on_audio_ready (GObject *source, GAsyncResult *result, gpointer user_data)
 {
   LoadData *data = user_data;
   g_autoptr (GError) error = NULL;
-  FwAudio *audio = g_task_propagate_pointer (G_TASK (result), &error);
+  FwAudio *audio = fw_clip_load_audio_finish (FW_CLIP (source), result, &error);
 
   if (finish_load (data->row, data, NULL, audio, error))
     load_data_free (data);
@@ -532,16 +506,7 @@ start_load (FwPlotRow *self)
 
   if (self->kind == FW_PLOT_WAVEFORM)
     {
-      AudioJob *job = g_new0 (AudioJob, 1);
-      g_autoptr (GTask) task = g_task_new (self, self->cancellable, on_audio_ready, data);
-      int channel = fw_clip_get_channel (self->clip);
-
-      job->clip = g_object_ref (self->clip);
-      job->channel = channel == FW_CLIP_CHANNEL_FROM_PARAMS ? fw_params_get_channel (params) : channel;
-      job->rate = fw_params_get_sample_rate (params);
-      g_task_set_source_tag (task, start_load);
-      g_task_set_task_data (task, job, (GDestroyNotify) audio_job_free);
-      g_task_run_in_thread (task, audio_thread);
+      fw_clip_load_audio_async (self->clip, params, self->cancellable, on_audio_ready, data);
     }
   else
     {

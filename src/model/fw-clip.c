@@ -552,3 +552,50 @@ _fw_clip_get_n_decoded (FwClip *self)
   g_mutex_unlock (&self->lock);
   return n;
 }
+
+typedef struct {
+  int channel;
+  int rate;
+} AudioRequest;
+
+static void
+load_audio_thread (GTask *task, gpointer source, gpointer task_data, GCancellable *cancellable)
+{
+  AudioRequest *req = task_data;
+  GError *error = NULL;
+  FwAudio *audio = fw_clip_load_audio (FW_CLIP (source), req->channel, req->rate, cancellable,
+                                       &error);
+
+  if (audio == NULL)
+    g_task_return_error (task, error);
+  else
+    g_task_return_pointer (task, audio, (GDestroyNotify) fw_audio_unref);
+}
+
+void
+fw_clip_load_audio_async (FwClip *self, FwParams *params, GCancellable *cancellable,
+                          GAsyncReadyCallback callback, gpointer user_data)
+{
+  g_autoptr (GTask) task = NULL;
+  AudioRequest *req;
+  int channel;
+
+  g_return_if_fail (FW_IS_CLIP (self));
+  g_return_if_fail (params != NULL);
+
+  channel = fw_clip_get_channel (self);
+  req = g_new0 (AudioRequest, 1);
+  req->channel = channel == FW_CLIP_CHANNEL_FROM_PARAMS ? fw_params_get_channel (params) : channel;
+  req->rate = fw_params_get_sample_rate (params);
+  task = g_task_new (self, cancellable, callback, user_data);
+  g_task_set_source_tag (task, fw_clip_load_audio_async);
+  g_task_set_task_data (task, req, g_free);
+  g_task_run_in_thread (task, load_audio_thread);
+}
+
+FwAudio *
+fw_clip_load_audio_finish (FwClip *self, GAsyncResult *result, GError **error)
+{
+  g_return_val_if_fail (g_task_is_valid (result, self), NULL);
+  return g_task_propagate_pointer (G_TASK (result), error);
+}

@@ -9,6 +9,7 @@
 #include <gio/gio.h>
 
 #include "fw-audio.h"
+#include "fw-params.h"
 #include "fw-types.h"
 
 G_BEGIN_DECLS
@@ -49,5 +50,12 @@ FwAudio *fw_clip_load_audio (FwClip *self, int channel, int sample_rate,
 void fw_clip_trim_audio (FwClip *self);
 /* A copy of the path, safe to call from any thread (fw_clip_get_path is main-thread only). */
 char *fw_clip_dup_path (FwClip *self);
+
+/* The same off the calling thread, at the channel and rate a parameter set asks for (the clip's
+ * own channel policy wins over the set's `channel` unless it is FW_CLIP_CHANNEL_FROM_PARAMS).
+ * The callback runs in the caller's main context. */
+void fw_clip_load_audio_async (FwClip *self, FwParams *params, GCancellable *cancellable,
+                               GAsyncReadyCallback callback, gpointer user_data);
+FwAudio *fw_clip_load_audio_finish (FwClip *self, GAsyncResult *result, GError **error);
 
 G_END_DECLS

@@ -34,7 +34,7 @@ struct _FwColourScale {
 };
 
 static FwColourScale scales[] = {
-  { "ember", N_("dark umber through brick and amber to pale cream"),
+  { "kiln", N_("dark umber through brick and amber to pale cream"),
     FW_COLOUR_SCALE_SEQUENTIAL, { 8.0, 97.0, 20.0, 92.0, 25.0, 40.0, 45.0 }, { 0 } },
   { "tidewater", N_("deep navy through teal to pale aqua"),
     FW_COLOUR_SCALE_SEQUENTIAL, { 10.0, 97.0, 285.0, 190.0, 30.0, 14.0, 22.0 }, { 0 } },
@@ -370,7 +370,7 @@ fw_colour_scale_list (size_t *n)
 const FwColourScale *
 fw_colour_scale_default (FwColourScaleKind kind)
 {
-  return fw_colour_scale_get (kind == FW_COLOUR_SCALE_DIVERGING ? "seesaw" : "ember");
+  return fw_colour_scale_get (kind == FW_COLOUR_SCALE_DIVERGING ? "seesaw" : "kiln");
 }
 
 char *

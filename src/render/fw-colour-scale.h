@@ -2,7 +2,7 @@
  *
  * Every scale is designed in CIELAB (CIE 1976 L*a*b*, D65 white) as a path in lightness, chroma
  * and hue, converted to sRGB (IEC 61966-2-1) and stored as a 256-entry lookup table:
- *   ember      sequential: dark umber -> brick -> amber -> pale cream (hue 20 -> 95 deg)
+ *   kiln       sequential: dark umber -> brick -> amber -> pale cream (hue 20 -> 95 deg)
  *   tidewater  sequential: deep navy -> teal -> pale aqua (hue 265 -> 180 deg)
  *   lichen     sequential: dark spruce -> moss -> pale straw (hue 150 -> 95 deg)
  *   graphite   sequential greyscale (a* = b* = 0)
@@ -55,9 +55,9 @@ typedef struct _FwColourScale FwColourScale;
 const FwColourScale *fw_colour_scale_get (const char *name);
 /* All scales in display order; *n receives the count. */
 const FwColourScale *const *fw_colour_scale_list (size_t *n);
-/* The default sequential ("ember") or diverging ("seesaw") scale. */
+/* The default sequential ("kiln") or diverging ("seesaw") scale. */
 const FwColourScale *fw_colour_scale_default (FwColourScaleKind kind);
-/* Comma-separated names, for error messages and help ("ember, tidewater, ..."). Caller frees. */
+/* Comma-separated names, for error messages and help ("kiln, tidewater, ..."). Caller frees. */
 char *fw_colour_scale_names (void);
 
 const char *fw_colour_scale_get_name (const FwColourScale *scale);

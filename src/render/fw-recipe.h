@@ -15,7 +15,7 @@
  *   start=0
  *   end=4.5
  *   frequency_scale=linear
- *   colour_scales=ember;ember;ember    (one per heatmap row, in row order)
+ *   colour_scales=kiln;kiln;kiln    (one per heatmap row, in row order)
  *   spectrum=whole                     (or none, frame:T, range:T0:T1)
  *
  *   [framewise-parameters]

@@ -90,7 +90,7 @@ test_list_and_methods (void)
   Run r;
 
   g_assert_cmpint (run (&r, "render", "--list-colour-scales", NULL), ==, 0);
-  for (const char *const *n = (const char *const[]) { "ember", "tidewater", "lichen", "graphite",
+  for (const char *const *n = (const char *const[]) { "kiln", "tidewater", "lichen", "graphite",
                                                      "seesaw", NULL };
        *n; n++)
     g_assert_nonnull (strstr (r.out, *n));
